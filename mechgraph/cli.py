@@ -1,0 +1,151 @@
+"""The ``mechgraph`` command line.
+
+Commands::
+
+    mechgraph demo                       the bundled six-bar, full report
+    mechgraph centers CASE [-f FORMAT] [-o FILE]
+    mechgraph topology CASE [-f FORMAT] [-o FILE]
+
+Exit codes: 0 success; 1 the cross-check failed; 2 bad input (case file,
+model, drivers, command line); 3 singular position (dead point, change point);
+4 an output file cannot be written.  Errors are printed as one message on
+standard error, without a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from .errors import MechgraphError, OutputError, SingularPositionError
+
+__all__ = ["main", "EXIT_OK", "EXIT_CHECK_FAILED", "EXIT_INPUT", "EXIT_SINGULAR", "EXIT_OUTPUT"]
+
+EXIT_OK = 0
+EXIT_CHECK_FAILED = 1
+EXIT_INPUT = 2
+EXIT_SINGULAR = 3
+EXIT_OUTPUT = 4
+
+_EPILOG = (
+    "exit codes: 0 success, 1 cross-check failed, 2 bad input, 3 singular position (dead point), "
+    "4 output cannot be written. Kinematic results only; strength, guarding and safety follow local codes "
+    "and licensed engineering practice."
+)
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="mechgraph",
+        description="Relative instant centers, velocities and topology of planar multi-loop mechanisms.",
+        epilog=_EPILOG,
+    )
+    sub = p.add_subparsers(dest="command", metavar="COMMAND")
+
+    def outputs(sp, formats):
+        sp.add_argument("-f", "--format", choices=formats, default=formats[0], help=f"output format (default {formats[0]})")
+        sp.add_argument("-o", "--output", metavar="FILE", help="write to FILE (whole or not at all) instead of standard output")
+
+    def tolerances(sp):
+        sp.add_argument("--tol", type=float, default=1e-9, help="coincidence tolerance of the three-centers solver, relative to the drawing size (default 1e-9)")
+        sp.add_argument("--agree-tol", type=float, default=1e-6, help="cross-check tolerance, relative to the drawing size (default 1e-6)")
+        sp.add_argument("--rank-tol", type=float, default=1e-9, help="relative singular-value threshold of the velocity analysis (default 1e-9)")
+
+    d = sub.add_parser("demo", help="analyse the bundled demo six-bar (a label applicator)", epilog=_EPILOG)
+    outputs(d, ["table", "json", "csv"])
+    tolerances(d)
+    c = sub.add_parser("centers", help="all relative instant centers of a case file, with derivations and cross-check", epilog=_EPILOG)
+    c.add_argument("case", help="case file (TOML)")
+    outputs(c, ["table", "json", "csv"])
+    tolerances(c)
+    t = sub.add_parser("topology", help="graph, mobility, loops, link types and chain class of a case file", epilog=_EPILOG)
+    t.add_argument("case", help="case file (TOML)")
+    outputs(t, ["table", "json"])
+    return p
+
+
+def _emit(text: str, output: str | None, inputs) -> None:
+    if output:
+        from .report import write_output
+
+        write_output(output, text, inputs=inputs)
+    else:
+        sys.stdout.write(text)
+
+
+def _check_tolerances(args) -> None:
+    for name in ("tol", "agree_tol", "rank_tol"):
+        v = getattr(args, name, None)
+        if v is not None and not (0.0 < v < 1.0):
+            raise _UsageError(f"--{name.replace('_', '-')} must be a number between 0 and 1, got {v}")
+
+
+class _UsageError(MechgraphError):
+    pass
+
+
+def _run(args) -> int:
+    from .analysis import analyse
+    from .casefile import demo_case_path, load_case, parse_case
+    from .report import to_csv, to_json, to_table, topology_dict, topology_table
+    from .topology import summarise_topology
+
+    _check_tolerances(args)
+    if args.command == "demo":
+        path = demo_case_path()
+        mech = parse_case(path.read_text(encoding="utf-8"), "demo:label_applicator.toml")
+        inputs = ()
+    else:
+        mech = load_case(args.case)
+        inputs = (args.case,)
+    topo = summarise_topology(mech, rank_tol=getattr(args, "rank_tol", 1e-9))
+    if args.command == "topology":
+        if args.format == "json":
+            text = json.dumps({"mechanism": mech.name, "topology": topology_dict(topo)}, indent=2) + "\n"
+        else:
+            text = topology_table(topo, mech.name)
+        _emit(text, args.output, inputs)
+        return EXIT_OK
+    a = analyse(mech, tol=args.tol, agree_tol=args.agree_tol, rank_tol=args.rank_tol)
+    if args.format == "json":
+        text = to_json(a, topo)
+    elif args.format == "csv":
+        text = to_csv(a)
+    else:
+        text = to_table(a, topo)
+    _emit(text, args.output, inputs)
+    if not a.passed:
+        print(
+            "mechgraph: CROSS-CHECK FAILED: the three-centers and velocity results disagree, or a link triple's "
+            "centers are not collinear, beyond the tolerance; do not use these results (see the report)",
+            file=sys.stderr,
+        )
+        return EXIT_CHECK_FAILED
+    return EXIT_OK
+
+
+def main(argv=None) -> int:
+    """Entry point of the ``mechgraph`` command; returns the exit code."""
+    parser = _parser()
+    args = parser.parse_args(argv)
+    if args.command is None:
+        parser.print_help()
+        return EXIT_INPUT
+    try:
+        return _run(args)
+    except SingularPositionError as e:
+        print(f"mechgraph: {e}", file=sys.stderr)
+        return EXIT_SINGULAR
+    except OutputError as e:
+        print(f"mechgraph: {e}", file=sys.stderr)
+        return EXIT_OUTPUT
+    except MechgraphError as e:
+        print(f"mechgraph: {e}", file=sys.stderr)
+        return EXIT_INPUT
+    except KeyboardInterrupt:  # pragma: no cover - interactive
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
