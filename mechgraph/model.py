@@ -91,8 +91,9 @@ def _check_coordinate(v, what: str, max_coordinate: float) -> None:
         if not isinstance(c, (int, float)) or isinstance(c, bool) or not math.isfinite(c):
             raise ModelError(f"{what} must hold finite numbers, got {list(v)}")
         if abs(c) > max_coordinate:
+            shown = ", ".join(f"{x:g}" for x in v)
             raise ModelError(
-                f"{what} = {list(v)} is beyond {max_coordinate:g} drawing units; "
+                f"{what} [{shown}] is beyond {max_coordinate:g} drawing units; "
                 "check the number (or the declared unit)"
             )
 
@@ -194,8 +195,8 @@ class Mechanism:
                     )
             if a == b:
                 raise ModelError(f"{joint.kind} joint '{joint.name}' joins link '{a}' to itself; a joint needs two different links")
-            for i, p in enumerate(joint.reference_points()):
-                _check_coordinate(p, f"{joint.label()} point {i + 1}", self.max_coordinate)
+            for p in joint.reference_points():
+                _check_coordinate(p, f"{joint.label()}: coordinate", self.max_coordinate)
         tol = self.coincidence_tol * self.scale
         by_pair: dict[frozenset, list[Joint]] = {}
         for joint in self.joints:
@@ -294,7 +295,7 @@ class Mechanism:
                 raise ModelError(
                     f"point '{p.name}' is on link '{p.link}', which is not defined; links are: {', '.join(self.link_names)}"
                 )
-            _check_coordinate(p.at, f"point '{p.name}' field 'at'", self.max_coordinate)
+            _check_coordinate(p.at, f"point '{p.name}': coordinate", self.max_coordinate)
 
     # ------------------------------------------------------------ properties
     @cached_property

@@ -190,14 +190,22 @@ def _num(x) -> str:
     return "" if x is None else repr(float(x))
 
 
+def _shown(x: float, ref: float, noise: float = 1e-12) -> float:
+    """A value for display: round-off below ``noise * ref`` is shown as 0 (the JSON keeps raw values)."""
+    return 0.0 if abs(x) <= noise * ref else x
+
+
 def _where(c: Center, a: Analysis, unit: str) -> str:
     if c.point is None:
         return "undefined"
-    xy = c.cartesian(a.mechanism.scale)
+    L = a.mechanism.scale
+    xy = c.cartesian(L)
     if xy is not None:
-        return f"({_f(xy[0], 7)}, {_f(xy[1], 7)}) {unit}"
+        return f"({_f(_shown(xy[0], L), 7)}, {_f(_shown(xy[1], L), 7)}) {unit}"
     dx, dy = c.direction()
     ang = math.degrees(math.atan2(dy, dx)) % 180.0
+    if 180.0 - ang < 1e-9:
+        ang = 0.0
     return f"at infinity, direction {ang:.4g} deg"
 
 
@@ -245,13 +253,19 @@ def to_table(a: Analysis, topology: Topology | None = None) -> str:
     if v is not None:
         drv = ", ".join(f"'{d}' at {_f(r)}" for d, r in zip(v.driver_joints, v.rates))
         out.append(f"Velocities (drivers: {drv}; rad/s and {u}/s)")
+        wref = float(abs(v.twists[:, 0]).max()) if v.twists.size else 0.0
+        vref = wref * m.scale + float(abs(v.twists[:, 1:]).max(initial=0.0))
         for i, name in enumerate(m.link_names):
             if i == m.ground_index:
                 continue
-            per = "  ".join(f"per unit '{d}': {_f(float(v.basis[k, i, 0]))}" for k, d in enumerate(v.driver_joints))
-            out.append(f"  {name:<16} w = {_f(float(v.twists[i, 0])):>12}   {per}")
+            per = "  ".join(
+                f"per unit '{d}': {_f(_shown(float(v.basis[k, i, 0]), float(abs(v.basis[k, :, 0]).max())))}"
+                for k, d in enumerate(v.driver_joints)
+            )
+            out.append(f"  {name:<16} w = {_f(_shown(float(v.twists[i, 0]), wref)):>12}   {per}")
         for p in m.points:
             vx, vy = v.point_velocity(m.index[p.link], p.at)
+            vx, vy = _shown(vx, vref), _shown(vy, vref)
             out.append(f"  point '{p.name}' on {p.link}: v = ({_f(vx)}, {_f(vy)}), speed {_f(math.hypot(vx, vy))}")
         out.append("")
     cc = a.crosscheck

@@ -195,7 +195,7 @@ def solve_three_centers(
     >>> r.n_located
     6
     >>> [round(c, 9) + 0.0 for c in r.point(0, 2)]
-    [0.0, 1.0, 0.0]
+    [0.0, 2.0, 0.0]
 
     Notes
     -----
