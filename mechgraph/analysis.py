@@ -265,14 +265,20 @@ def analyse(
     centers = []
     final = np.full((mech.n_pairs, 3), np.nan)
     worst_sep, worst_pair, compared = 0.0, None, 0
-    for q, (i, j) in enumerate(pairs(n)):
+    all_pairs = pairs(n)
+    if vel is not None:
+        ii, jj = (np.array(x, dtype=int) for x in zip(*all_pairs))
+        rel = vel.twists[ii] - vel.twists[jj]
+        rest_all = vel.twist_size(rel) <= vel.rest_tol * vel.reference_size if vel.reference_size > 0 else np.ones(len(ii), bool)
+        poles = np.stack([-rel[:, 2], rel[:, 1], rel[:, 0]], axis=1)
+    for q, (i, j) in enumerate(all_pairs):
         geo = tc.points[q]
         d = tc.derivations[q]
         vp, rest = None, False
         if vel is not None:
-            rest = vel.is_relative_rest(i, j)
+            rest = bool(rest_all[q])
             if not rest:
-                vp = pg.normalized_point(vel.pole(i, j), scale=L)
+                vp = pg.normalized_point(poles[q], scale=L)
         check = None
         if geo is not None:
             point, method, text = geo, d.method, describe_derivation(mech, d)

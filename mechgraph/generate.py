@@ -521,6 +521,7 @@ def ladder(
     size: float = DEFAULT_SIZE,
     min_separation: float = DEFAULT_MIN_SEPARATION,
     min_sine: float = DEFAULT_MIN_SINE,
+    max_speed_ratio: float = 10.0,
     rate: float = 1.0,
 ) -> Mechanism:
     """A one-freedom chain of stacked four-bar loops, with random pins.
@@ -553,6 +554,13 @@ def ladder(
     min_sine : float, default 0.1
         Every triangle of pins of a loop closed by pins, and the triangle of
         each dyad's three pins, has all its angle sines at least this.
+    max_speed_ratio : float, default 10
+        Every moving link except the crank turns at between
+        ``1 / max_speed_ratio`` and ``max_speed_ratio`` times the crank rate.
+        Speed ratios multiply along the chain, so without this bound a long
+        ladder of random loops drifts towards speeds so large or small (a
+        near-dead sub-chain) that its velocity equations are numerically
+        singular; the bound rejects such draws, dyad by dyad.
     rate : float, default 1.0
         Crank rate (rad/s) on ``"O2"``.
 
@@ -580,7 +588,16 @@ def ladder(
         raise ValueError(f"a ladder has 4 + 2k links (k >= 0), got {n_links}")
     if attach not in ("rocker", "coupler", "mixed"):
         raise ValueError(f"attach must be 'rocker', 'coupler' or 'mixed', got {attach!r}")
-    base = _draw(rng, 4, lambda q: _loop_ok(q, min_sine), size=size, min_separation=min_separation)
+    def crank(q):
+        return np.array([1.0, q[0][1], -q[0][0]])  # unit rate about O2
+
+    def base_ok(q):
+        if not _loop_ok(q, min_sine):
+            return False
+        tw = _dyad_twists(crank(q), q[1], q[2], q[3])
+        return tw is not None and _speeds_ok(tw, max_speed_ratio)
+
+    base = _draw(rng, 4, base_ok, size=size, min_separation=min_separation)
     o2, a, b, o4 = base
     joints = [
         _pin("O2", "frame", "L1", o2),
@@ -589,24 +606,29 @@ def ladder(
         _pin("O4", "frame", "L3", o4),
     ]
     all_points = [np.asarray(p) for p in base]
+    twist = dict(zip(("L2", "L3"), _dyad_twists(crank(base), a, b, o4)))
     coupler, rocker = "L2", "L3"
     rocker_pivot = o4  # the rocker's pin on the frame
     min_dist = min_separation * size
     for s in range(1, (n_links - 4) // 2 + 1):
         x = attach if attach != "mixed" else ("rocker", "coupler")[int(rng.integers(2))]
+        held = rocker if x == "rocker" else coupler
         low = (s * size / 2.0, 0.0)
         existing = np.asarray(all_points)
 
-        def accept(q, x=x, existing=existing, pivot=rocker_pivot):
+        def accept(q, x=x, existing=existing, pivot=rocker_pivot, held_twist=twist[held]):
             d = q[:, None, :] - existing[None, :, :]
             if np.hypot(d[..., 0], d[..., 1]).min() < min_dist:
                 return False
             if x == "rocker":
-                return _loop_ok((pivot, q[0], q[1], q[2]), min_sine)
-            return _triangle_sine(q[0], q[1], q[2]) >= min_sine
+                if not _loop_ok((pivot, q[0], q[1], q[2]), min_sine):
+                    return False
+            elif _triangle_sine(q[0], q[1], q[2]) < min_sine:
+                return False
+            tw = _dyad_twists(held_twist, q[0], q[1], q[2])
+            return tw is not None and _speeds_ok(tw, max_speed_ratio)
 
         p, m_, g = _draw(rng, 3, accept, size=size, min_separation=min_separation, low=low)
-        held = rocker if x == "rocker" else coupler
         new_c, new_r = f"L{2 * s + 2}", f"L{2 * s + 3}"
         joints += [
             _pin(f"P{s}", held, new_c, p),
@@ -614,6 +636,7 @@ def ladder(
             _pin(f"G{s}", "frame", new_r, g),
         ]
         all_points += [p, m_, g]
+        twist[new_c], twist[new_r] = _dyad_twists(twist[held], p, m_, g)
         coupler, rocker, rocker_pivot = new_c, new_r, g
     return Mechanism(
         name=f"ladder-{n_links}",

@@ -179,6 +179,8 @@ class VelocityState:
         Drawing centre.
     rest_tol : float
         Relative tolerance of :meth:`is_relative_rest`.
+    reference_size : float
+        Largest link twist size (see :meth:`twist_size`), the yardstick of relative rest.
     """
 
     link_names: tuple
@@ -191,16 +193,11 @@ class VelocityState:
     scale: float
     centre: tuple
     rest_tol: float
+    reference_size: float
 
-    def _size(self, t) -> float:
-        w, vx, vy = t
-        cx, cy = self.centre
-        # velocity at the drawing centre, and the angular part at drawing size
-        return float(np.sqrt((w * self.scale) ** 2 + (vx - w * cy) ** 2 + (vy + w * cx) ** 2))
-
-    @property
-    def _reference_size(self) -> float:
-        return max((self._size(t) for t in self.twists), default=0.0)
+    def twist_size(self, t) -> np.ndarray:
+        """Size of twist(s) ``t`` (last axis ``(w, vx, vy)``): ``|(w * scale, v at the drawing centre)|``."""
+        return _twist_size(np.asarray(t, dtype=float), self.scale, self.centre)
 
     def relative_twist(self, i: int, j: int) -> np.ndarray:
         """Twist of link i relative to link j."""
@@ -223,10 +220,10 @@ class VelocityState:
 
     def is_relative_rest(self, i: int, j: int) -> bool:
         """True when links i and j have (nearly) the same twist: their velocity pole is undefined."""
-        ref = self._reference_size
+        ref = self.reference_size
         if ref == 0.0:
             return True
-        return self._size(self.relative_twist(i, j)) <= self.rest_tol * ref
+        return float(self.twist_size(self.relative_twist(i, j))) <= self.rest_tol * ref
 
     def angular_velocity(self, i: int) -> float:
         return float(self.twists[i, 0])
@@ -235,6 +232,13 @@ class VelocityState:
         """Velocity of the point of link i at global position r."""
         w, vx, vy = self.twists[i]
         return (float(vx - w * r[1]), float(vy + w * r[0]))
+
+
+def _twist_size(t: np.ndarray, scale: float, centre) -> np.ndarray:
+    w, vx, vy = t[..., 0], t[..., 1], t[..., 2]
+    cx, cy = centre
+    # the angular part at drawing size, and the velocity at the drawing centre
+    return np.sqrt((w * scale) ** 2 + (vx - w * cy) ** 2 + (vy + w * cx) ** 2)
 
 
 def analyse_velocities(
@@ -337,6 +341,7 @@ def analyse_velocities(
         scale=L,
         centre=mech.centre,
         rest_tol=rest_tol,
+        reference_size=float(_twist_size(twists, L, mech.centre).max(initial=0.0)),
     )
 
 
