@@ -200,7 +200,9 @@ def solve_three_centers(
     Notes
     -----
     Worklist over link pairs; each located pair is combined once with every
-    third link, so the cost is O(n^3) for n links with O(n^2) memory.  Lines
+    third link that closes a triple with one known and one unknown center
+    (found by set intersection), so the cost is at most O(n^3) for n links,
+    and much less where most triples close early; memory O(n^2).  Lines
     through two coincident centers carry no direction; instead, when two
     centers of a link triple coincide the third is the same point (the
     relative poles add: P_jk = P_ji + P_ik).
@@ -234,11 +236,19 @@ def solve_three_centers(
         if not (0 <= i < n and 0 <= j < n) or i == j:
             raise ValueError(f"seed pair ({i}, {j}) is not a pair of two links among {n}")
 
+    # known[i]: links whose center with i is located; unknown[i]: the others.
+    known: list[set[int]] = [set() for _ in range(n)]
+    unknown: list[set[int]] = [set(range(n)) - {i} for i in range(n)]
+
     def locate(i, j, p, d):
         q = pid[i][j]
         points[q] = norm(p, scale=scale)
         derivs[q] = d
         order.append(q)
+        known[i].add(j)
+        known[j].add(i)
+        unknown[i].discard(j)
+        unknown[j].discard(i)
         queue.append((i, j) if i < j else (j, i))
 
     def add_locus(i, j, loc: Locus):
@@ -267,22 +277,19 @@ def solve_three_centers(
     while queue:
         i, j = queue.popleft()
         pij = points[pid[i][j]]
-        for k in range(n):
-            if k == i or k == j:
-                continue
-            qik, qjk = pid[i][k], pid[j][k]
-            pik, pjk = points[qik], points[qjk]
-            # (i, k) known, (j, k) not: the line through P_ij and P_ik is a locus of (j, k);
-            # (j, k) known, (i, k) not: the line through P_ij and P_jk is a locus of (i, k).
-            for known, kpair, target in ((pik, (i, k), (j, k)), (pjk, (j, k), (i, k))):
-                if known is None or points[pid[target[0]][target[1]]] is not None:
+        # (i, k) known, (j, k) not: the line through P_ij and P_ik is a locus of (j, k);
+        # (j, k) known, (i, k) not: the line through P_ij and P_jk is a locus of (i, k).
+        for shared, other in ((i, j), (j, i)):
+            for k in sorted(known[shared] & unknown[other]):
+                if points[pid[other][k]] is not None:
+                    continue  # located meanwhile, in this same sweep
+                known_pt = points[pid[shared][k]]
+                target = (other, k) if other < k else (k, other)
+                kp = (shared, k) if shared < k else (k, shared)
+                if sep_p(pij, known_pt, scale=scale) <= tol:
+                    locate(target[0], target[1], pij, Derivation("coincident", through=((i, j), kp)))
                     continue
-                a, b = sorted(target)
-                kp = tuple(sorted(kpair))
-                if sep_p(pij, known, scale=scale) <= tol:
-                    locate(a, b, pij, Derivation("coincident", through=((i, j), kp)))
-                    continue
-                add_locus(a, b, Locus(pg.join(pij, known), through=((i, j), kp), via=_third(i, j, k, target)))
+                add_locus(target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared))
 
     return ThreeCentersResult(
         n_links=n,
@@ -291,12 +298,3 @@ def solve_three_centers(
         loci=tuple(tuple(x) for x in loci),
         order=tuple(order),
     )
-
-
-def _third(i: int, j: int, k: int, target: tuple[int, int]) -> int:
-    """The link of the triple {i, j, k} outside the target pair.
-
-    For a locus of (j, k) through P_ij and P_ik it is i, the link the two
-    known pairs share.
-    """
-    return next(x for x in (i, j, k) if x not in target)

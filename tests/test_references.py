@@ -290,6 +290,35 @@ class TestFourBarSweep:
             assert same_point(velocity_pole(an, *pair), ic[key], m.scale * far)
 
 
+@pytest.mark.parametrize("circuit", ["open", "crossed"])
+def test_coupler_in_translation_puts_I13_at_infinity(circuit):
+    from scipy.optimize import brentq
+
+    a, b, c, d = LINKSETS[0]
+    w2 = 10.0
+    # Source: vector-loop closed form w3 = a w2 sin(th4 - th2) / (b sin(th3 - th4)), Norton /
+    # Uicker, Pennock & Shigley (from memory): w3 = 0 where the rocker is parallel to the crank.
+    f = lambda t: math.sin(ref.fourbar_position(a, b, c, d, t, circuit)[1] - t)  # noqa: E731
+    grid = np.linspace(0.0, 2.0 * math.pi, 73)
+    k = next(i for i in range(72) if f(grid[i]) * f(grid[i + 1]) < 0.0)
+    th2 = brentq(f, grid[k], grid[k + 1], xtol=1e-15)
+    m, j, (th3, th4) = fourbar_mechanism(a, b, c, d, th2, w2, circuit)
+    an = analyse(m)
+    assert an.passed
+    w3_ref, w4_ref = ref.fourbar_velocity(a, b, c, th2, th3, th4, w2)
+    assert abs(w3_ref) < 1e-12 * abs(w2)
+    assert an.velocity.angular_velocity(m.index["coupler"]) == pytest.approx(0.0, abs=1e-12 * abs(w2))
+    assert an.velocity.angular_velocity(m.index["rocker"]) == pytest.approx(w4_ref, rel=REL)
+    # A link in instantaneous translation has its center at infinity, perpendicular to its
+    # velocity; here along the parallel lines O2A and O4B (common practice, no source).
+    i13 = an.center("frame", "coupler")
+    assert i13.method == "three-centers"
+    assert not i13.relative_rest
+    assert i13.cartesian(m.scale) is None
+    dx, dy = i13.direction()
+    assert dx * math.sin(th2) - dy * math.cos(th2) == pytest.approx(0.0, abs=1e-9)
+
+
 # ============================================================ slider-crank
 SLIDERS = [(10.0, 20.0, 0.0), (10.0, 20.0, 3.0), (25.0, 60.0, -8.0)]  # (r, l, e); e = 0 is in-line
 
