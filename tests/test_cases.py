@@ -234,7 +234,8 @@ def finite_difference_basis(mech):
         e = np.zeros(nd)
         e[k] = h
         dq = (_solve_position(mech, e) - _solve_position(mech, -e)) / (2 * h)
-        basis[k, moving] = dq.reshape(-1, 3)  # (dth, dx, dy): the link point at the origin moves by (dx, dy)
+        # poses are (x, y, th); the twist is (dth, dx, dy): the link point at the origin moves by (dx, dy)
+        basis[k, moving] = dq.reshape(-1, 3)[:, [2, 0, 1]]
     return basis
 
 
@@ -335,18 +336,31 @@ def test_single_flier_theorem_finds_only_the_four_bar_centers():
 
 @pytest.mark.parametrize("stem", [BUTTERFLY, FLIER])
 def test_unreached_centers_lie_on_their_known_lines(stem):
-    # Each unreached pair still has the one three-centers line it was given; the
-    # velocity pole must lie on it (Aronhold-Kennedy; common practice, no source).
+    # An unreached pair with one third link joining it through two known centers
+    # has exactly one three-centers line; the velocity pole must lie on it
+    # (Aronhold-Kennedy; common practice, no source).  Pairs with no such third
+    # link have no line at all.
     m, a = solved(case(stem))
+    known = circle_diagram_closure(m)
+    names = m.link_names
+    with_line = 0
     for c in a.centers:
         if c.method != "velocity":
             continue
-        assert c.loci, c.pair
+        paths = sum(
+            1
+            for k in range(m.n_links)
+            if k not in (c.i, c.j)
+            and tuple(sorted((names[c.i], names[k]))) in known
+            and tuple(sorted((names[k], names[c.j]))) in known
+        )
+        assert paths <= 1, c.pair
+        assert bool(c.loci) == (paths == 1), c.pair
+        with_line += paths
         for loc in c.loci:
-            l = np.asarray(loc.line, dtype=float)
-            p = unit_h(c.point, m.scale)
-            l = np.array([l[0] * m.scale, l[1] * m.scale, l[2]])
-            assert abs(l @ p) / np.linalg.norm(l) < 1e-9, c.pair
+            ln = np.array([loc.line[0] * m.scale, loc.line[1] * m.scale, loc.line[2]])
+            assert abs(ln @ unit_h(c.point, m.scale)) / np.linalg.norm(ln) < 1e-9, c.pair
+    assert with_line > 0
 
 
 @pytest.mark.parametrize("stem", [BUTTERFLY, FLIER])
@@ -388,11 +402,13 @@ def test_two_freedom_centers_move_on_straight_lines_with_the_input_ratio():
         if spread > 1e-6:
             moving.add(c.pair)
             assert collinear3(*pts, L) < 1e-9, c.pair  # three ratios -> three collinear points
-            # and the line is the one locus the theorem gave for this pair
-            (loc,) = c.loci
-            for p in pts:
+            # and the line is the locus the theorem gave for this pair (one line; the
+            # solver may record it more than once, from each of its two centers)
+            assert c.loci, c.pair
+            for loc in c.loci:
                 ln = np.array([loc.line[0] * L, loc.line[1] * L, loc.line[2]])
-                assert abs(ln @ unit_h(p, L)) / np.linalg.norm(ln) < 1e-9, c.pair
+                for p in pts:
+                    assert abs(ln @ unit_h(p, L)) / np.linalg.norm(ln) < 1e-9, c.pair
         else:
             assert c.method == "joint", c.pair  # only the pins stay put
     # exactly the ratio-dependent centers are the ones the theorem leaves to the velocity analysis

@@ -14,6 +14,7 @@ directions for centers at infinity).
 from __future__ import annotations
 
 import math
+import os
 from dataclasses import replace
 from itertools import combinations
 
@@ -46,8 +47,10 @@ COLLINEAR_TOL = 1e-8
 #: Relative agreement of angular velocities.
 OMEGA_TOL = 1e-9
 
-PROPERTY = settings(max_examples=50, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-FEW = settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+#: Examples per property; ``MECHGRAPH_EXAMPLES_FACTOR=20`` runs a thorough pass.
+_FACTOR = max(1, int(os.environ.get("MECHGRAPH_EXAMPLES_FACTOR", "1")))
+PROPERTY = settings(max_examples=50 * _FACTOR, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+FEW = settings(max_examples=30 * _FACTOR, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 
 kinds = st.sampled_from(sorted(TOPOLOGIES))
 seeds = st.integers(min_value=0, max_value=2**32 - 1)
@@ -220,13 +223,44 @@ def test_number_of_centers_and_primary_centers(kind, seed):
         assert pg.point_separation(c.velocity_point, expected, scale=L) <= SEP_TOL
 
 
+@FEW
+@given(
+    o2=st.tuples(st.integers(-100, 100), st.integers(-100, 100)),
+    crank=st.tuples(st.integers(-100, 100), st.integers(-100, 100)),
+    base=st.tuples(st.integers(-100, 100), st.integers(-100, 100)),
+)
+def test_parallelogram_has_centers_at_infinity(o2, crank, base):
+    # integer coordinates: the opposite sides are exactly parallel
+    o2 = np.array(o2, dtype=float)
+    crank, base = np.array(crank, dtype=float), np.array(base, dtype=float)
+    a, o4 = o2 + crank, o2 + base
+    b = a + base
+    if _triangle_sine(o2, a, o4) < 0.1 or min(np.hypot(*crank), np.hypot(*base)) < 10:
+        reject()
+    m = four_bar(o2, a, b, o4, rate=2.0)
+    res = _analyse(m)
+    L = m.scale
+    # the coupler translates: its center relative to the frame is at infinity
+    # along the cranks; the two cranks turn alike: their relative center is at
+    # infinity along the frame (common practice, no source)
+    for pair, along in ((("frame", "L2"), crank), (("L1", "L3"), base)):
+        c = res.center(*pair)
+        assert c.cartesian(L) is None, c
+        assert pg.point_separation(c.point, pg.direction(*along), scale=L) <= 1e-12
+        assert c.check is not None and c.check.separation <= SEP_TOL
+    assert res.passed
+    assert abs(res.velocity.angular_velocity(m.index["L2"])) <= 1e-12 * 2.0
+
+
 # ------------------------------------------------------------------ invariances
 @PROPERTY
 @given(
     kind=kinds,
     seed=seeds,
     angle=st.floats(-math.pi, math.pi),
-    shift=st.tuples(st.floats(-1e4, 1e4), st.floats(-1e4, 1e4)),
+    # up to ten drawing sizes away: far offsets lose precision in the
+    # three-centers solver (see the xfail reproducers at the end)
+    shift=st.tuples(st.floats(-1e3, 1e3), st.floats(-1e3, 1e3)),
 )
 def test_rigid_motion_moves_centers_and_keeps_angular_velocities(kind, seed, angle, shift):
     m = _mechanism(kind, seed)
@@ -260,7 +294,7 @@ def test_uniform_scaling_scales_centers_and_keeps_angular_velocities(kind, seed,
     _assert_same_omegas(_omegas_by_name(a), _omegas_by_name(b))
 
 
-name_chars = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789_ "
+name_chars = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789_"
 
 
 @PROPERTY
@@ -271,7 +305,7 @@ def test_renaming_and_reordering_change_nothing(kind, seed, data):
     n = m.n_links
     new_names = data.draw(
         st.lists(
-            st.text(name_chars, min_size=1, max_size=8).filter(lambda t: t.strip() and "-" not in t),
+            st.text(name_chars, min_size=1, max_size=8),
             min_size=n,
             max_size=n,
             unique=True,
@@ -350,3 +384,49 @@ def test_ladder_rejects_odd_or_small_sizes(bad):
 def test_generators_are_reproducible():
     for kind in TOPOLOGIES:
         assert _mechanism(kind, 42) == _mechanism(kind, 42)
+
+
+# ------------------------------------------------------- known core weaknesses
+def _far_four_bar(offset: float, k: float) -> Mechanism:
+    """The four-bar (0,0), (30,40), (120,60), (100,0), shrunk by k and moved by (offset, offset)."""
+    pins = [(0.0, 0.0), (30.0, 40.0), (120.0, 60.0), (100.0, 0.0)]
+    return four_bar(*[(offset + k * x, offset + k * y) for x, y in pins])
+
+
+def _true_errors(offset: float, k: float):
+    """Distance of each located center from the true one, in drawing sizes, and the analysis."""
+    ref, far = analyse(_far_four_bar(0.0, k)), analyse(_far_four_bar(offset, k))
+    errors = {}
+    for cr, cf in zip(ref.centers, far.centers):
+        x, y = pg.to_cartesian(cr.point)
+        errors[cf.pair] = math.dist((x + offset, y + offset), pg.to_cartesian(cf.point)) / far.mechanism.scale
+    return errors, far
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="core: three-centers centers lose accuracy quadratically with the distance of the drawing from "
+    "the origin (homogeneous joins/meets in absolute coordinates), and the scale-free separation shrinks "
+    "with that distance, so the cross-check passes wrong centers",
+)
+def test_far_from_origin_wrong_centers_pass_the_crosscheck():
+    # A 1.34-unit four-bar drawn at (1e7, 1e7), well inside MAX_COORDINATE.
+    errors, far = _true_errors(1e7, 0.01)
+    wrong = {p: e for p, e in errors.items() if e > far.crosscheck.tol}
+    # either every center is right (to the agreement tolerance of the drawing size) ...
+    # ... or the cross-check must say so.  Observed: L1-L3 is off by ~8 % of the
+    # drawing, yet passed is True with max_separation ~3e-9.
+    assert not wrong or not far.passed, (wrong, far.crosscheck)
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="core: the solver's coincidence test (point_separation <= tol) is not translation invariant: far "
+    "from the origin, distinct centers count as one and a 'coincident' derivation is made up",
+)
+def test_far_from_origin_distinct_centers_are_taken_as_coincident():
+    # The same four-bar at (1e8, 1e8): frame-L2 is reported as coinciding with
+    # frame-L1 and L1-L2 (pins 0.5 units apart), 3 units (2.2 drawing sizes) from the true center.
+    errors, far = _true_errors(1e8, 0.01)
+    assert far.center("frame", "L2").method == "three-centers", far.center("frame", "L2").derivation
+    assert max(errors.values()) <= 1e-6
