@@ -50,6 +50,10 @@ class Center:
     crossing : float
         Separation of the two lines that located it (1 well apart, near 0
         nearly coincident); 1 for primary and velocity centers.
+    ratio_line : tuple or None
+        For a center of a two-input mechanism that depends on the ratio of the
+        input rates: the homogeneous line it moves along as the ratio changes
+        (through its positions under each input alone).
     """
 
     i: int
@@ -63,6 +67,7 @@ class Center:
     check: PairCheck | None
     loci: tuple = ()
     crossing: float = 1.0
+    ratio_line: tuple | None = None
 
     def cartesian(self, scale: float, *, far: float = 1e12):
         """``(x, y)``, or None when the center lies at infinity (see :func:`~mechgraph.projective.to_cartesian`)."""
@@ -200,6 +205,17 @@ def describe_derivation(mech: Mechanism, d: Derivation | None) -> str:
     return f"from {_locus_text(mech, l1)} and {_locus_text(mech, l2)}"
 
 
+def _ratio_line(vel: VelocityState, i: int, j: int):
+    """Line through the poles of pair (i, j) under each of two inputs alone (None if one is undefined)."""
+    p1, p2 = (vel.basis[k, i] - vel.basis[k, j] for k in range(2))
+    q1, q2 = ((-t[2], t[1], t[0]) for t in (p1, p2))
+    line = pg.join(q1, q2)
+    try:
+        return pg.normalized_line(line, scale=vel.scale)
+    except ValueError:
+        return None
+
+
 def analyse(
     mech: Mechanism,
     poses=None,
@@ -265,6 +281,8 @@ def analyse(
     centers = []
     final = np.full((mech.n_pairs, 3), np.nan)
     worst_sep, worst_pair, compared = 0.0, None, 0
+    worst_locus, worst_locus_pair = 0.0, None
+    ratio_lines: dict[int, tuple | None] = {}
     all_pairs = pairs(n)
     if vel is not None:
         ii, jj = (np.array(x, dtype=int) for x in zip(*all_pairs))
@@ -292,6 +310,17 @@ def analyse(
         elif vp is not None:
             point, method = vp, "velocity"
             text = "pole of the relative twist (velocity analysis): not reachable by the three-centers theorem"
+            if len(vel.driver_joints) == 2:
+                names = " and ".join(f"'{d}'" for d in vel.driver_joints)
+                text += (
+                    f"; it depends on the ratio of the input rates of {names} and moves along the line through its "
+                    "positions under each input alone as that ratio changes"
+                )
+                ratio_lines[q] = _ratio_line(vel, i, j)
+            for loc in tc.loci[q]:
+                r = pg.point_on_line(vp, loc.line, scale=L)
+                if r > worst_locus:
+                    worst_locus, worst_locus_pair = r, (i, j)
         else:
             point, method = None, "unresolved"
             text = (
@@ -315,6 +344,7 @@ def analyse(
                 check=check,
                 loci=tc.loci[q] if geo is None else (),
                 crossing=d.crossing if d is not None else 1.0,
+                ratio_line=ratio_lines.get(q),
             )
         )
     triples, res = collinearity_residuals(final, n, scale=L)
@@ -331,5 +361,7 @@ def analyse(
         max_collinearity=max_c,
         worst_triple=worst_t,
         tol=agree_tol,
+        max_locus_residual=worst_locus,
+        worst_locus_pair=worst_locus_pair,
     )
     return Analysis(mechanism=mech, centers=tuple(centers), velocity=vel, three_centers=tc, crosscheck=cc)

@@ -143,7 +143,12 @@ class CrossCheck:
         Largest collinearity residual.
     worst_triple : tuple or None
     tol : float
-        Tolerance of both tests.
+        Tolerance of all three tests.
+    max_locus_residual : float
+        For centers the theorem could not locate but which lie on known lines
+        (one three-centers line, a contact normal): the largest distance of the
+        velocity analysis' center from those lines (scale-free).
+    worst_locus_pair : tuple or None
     """
 
     n_compared: int
@@ -153,7 +158,9 @@ class CrossCheck:
     max_collinearity: float
     worst_triple: tuple | None
     tol: float
+    max_locus_residual: float = 0.0
+    worst_locus_pair: tuple | None = None
 
     @property
     def passed(self) -> bool:
-        return self.max_separation <= self.tol and self.max_collinearity <= self.tol
+        return max(self.max_separation, self.max_collinearity, self.max_locus_residual) <= self.tol

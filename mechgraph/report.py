@@ -65,6 +65,8 @@ def _center_dict(c: Center, a: Analysis) -> dict:
         }
     if c.loci:
         out["known_lines"] = [list(loc.line) for loc in c.loci]
+    if c.ratio_line is not None:
+        out["ratio_line"] = list(c.ratio_line)
     return out
 
 
@@ -137,6 +139,8 @@ def to_dict(a: Analysis, topology: Topology | None = None) -> dict:
             "triples": cc.n_triples,
             "max_collinearity": cc.max_collinearity,
             "worst_triple": [names[i] for i in cc.worst_triple] if cc.worst_triple else None,
+            "max_locus_residual": cc.max_locus_residual,
+            "worst_locus_pair": [names[i] for i in cc.worst_locus_pair] if cc.worst_locus_pair else None,
         },
     }
 
@@ -276,6 +280,9 @@ def to_table(a: Analysis, topology: Topology | None = None) -> str:
     out.append(f"Cross-check {verdict} (tolerance {cc.tol:g} of the drawing size {_f(m.scale)} {u}):")
     out.append(f"  three-centers vs velocity analysis: {cc.n_compared} centers compared, largest separation {_f(cc.max_separation, 3)} ({wp})")
     out.append(f"  Aronhold-Kennedy collinearity: {cc.n_triples} link triples, largest residual {_f(cc.max_collinearity, 3)} ({wt})")
+    if cc.worst_locus_pair is not None:
+        wl = "-".join(names[i] for i in cc.worst_locus_pair)
+        out.append(f"  velocity centers on their known three-centers lines: largest residual {_f(cc.max_locus_residual, 3)} ({wl})")
     unreached = [c for c in a.centers if c.method in ("velocity", "unresolved")]
     if unreached:
         out.append(f"  {len(unreached)} center(s) not reachable by the three-centers theorem: {', '.join(c.pair for c in unreached)}")
