@@ -226,6 +226,7 @@ def solve_three_centers(
     points: list = [None] * npairs
     derivs: list = [None] * npairs
     loci: list[list[Locus]] = [[] for _ in range(npairs)]
+    seen_through: list[set] = [set() for _ in range(npairs)]
     order: list[int] = []
     queue: deque[tuple[int, int]] = deque()
     sep_p = pg.point_separation
@@ -255,6 +256,11 @@ def solve_three_centers(
         q = pid[i][j]
         if points[q] is not None:
             return
+        if loc.through is not None:
+            key = frozenset(loc.through)
+            if key in seen_through[q]:
+                return  # the same line, met again from its other known center
+            seen_through[q].add(key)
         best, best_s = None, 0.0
         for other in loci[q]:
             s = sep_l(other.line, loc.line, scale=scale)
