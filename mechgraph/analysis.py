@@ -169,7 +169,7 @@ def locate_centers(mech: Mechanism, poses=None, *, tol: float = 1e-9) -> ThreeCe
     (15, 0)
     """
     pts, lines = primary_seeds(mech, poses)
-    return solve_three_centers(mech.n_links, pts, lines, scale=mech.scale, tol=tol)
+    return solve_three_centers(mech.n_links, pts, lines, scale=mech.scale, origin=mech.centre, tol=tol)
 
 
 def _pair_text(mech: Mechanism, p) -> str:
@@ -211,7 +211,7 @@ def _ratio_line(vel: VelocityState, i: int, j: int):
     q1, q2 = ((-t[2], t[1], t[0]) for t in (p1, p2))
     line = pg.join(q1, q2)
     try:
-        return pg.normalized_line(line, scale=vel.scale)
+        return pg.normalized_line(line, scale=vel.scale, origin=vel.centre)
     except ValueError:
         return None
 
@@ -276,7 +276,7 @@ def analyse(
     """
     tc = locate_centers(mech, poses, tol=tol)
     vel = analyse_velocities(mech, poses, rank_tol=rank_tol, rest_tol=rest_tol) if velocities else None
-    L = mech.scale
+    L, O = mech.scale, mech.centre
     n = mech.n_links
     centers = []
     final = np.full((mech.n_pairs, 3), np.nan)
@@ -296,12 +296,12 @@ def analyse(
         if vel is not None:
             rest = bool(rest_all[q])
             if not rest:
-                vp = pg.normalized_point(poles[q], scale=L)
+                vp = pg.normalized_point(poles[q], scale=L, origin=O)
         check = None
         if geo is not None:
             point, method, text = geo, d.method, describe_derivation(mech, d)
             if vp is not None:
-                check = compare_centers(geo, vp, scale=L, tol=agree_tol)
+                check = compare_centers(geo, vp, scale=L, origin=O, tol=agree_tol)
                 compared += 1
                 if check.separation > worst_sep or worst_pair is None:
                     worst_sep, worst_pair = max(worst_sep, check.separation), (i, j)
@@ -318,7 +318,7 @@ def analyse(
                 )
                 ratio_lines[q] = _ratio_line(vel, i, j)
             for loc in tc.loci[q]:
-                r = pg.point_on_line(vp, loc.line, scale=L)
+                r = pg.point_on_line(vp, loc.line, scale=L, origin=O)
                 if r > worst_locus:
                     worst_locus, worst_locus_pair = r, (i, j)
         else:
@@ -347,7 +347,7 @@ def analyse(
                 ratio_line=ratio_lines.get(q),
             )
         )
-    triples, res = collinearity_residuals(final, n, scale=L)
+    triples, res = collinearity_residuals(final, n, scale=L, origin=O)
     if len(res):
         t = int(np.argmax(res))
         worst_t, max_c = tuple(int(x) for x in triples[t]), float(res[t])

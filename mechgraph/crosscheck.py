@@ -52,7 +52,7 @@ class PairCheck:
     passed: bool
 
 
-def compare_centers(p, q, *, scale: float, tol: float = DEFAULT_AGREE_TOL, far: float = 1e6) -> PairCheck:
+def compare_centers(p, q, *, scale: float, origin=(0.0, 0.0), tol: float = DEFAULT_AGREE_TOL, far: float = 1e6) -> PairCheck:
     """Compare two homogeneous centers of one pair.
 
     Parameters
@@ -61,6 +61,8 @@ def compare_centers(p, q, *, scale: float, tol: float = DEFAULT_AGREE_TOL, far: 
         The two centers.
     scale : float
         Drawing size.
+    origin : (float, float), default (0, 0)
+        Drawing centre, about which the separation is measured.
     tol : float, default :data:`DEFAULT_AGREE_TOL`
         Largest separation that passes.
     far : float, default 1e6
@@ -77,9 +79,10 @@ def compare_centers(p, q, *, scale: float, tol: float = DEFAULT_AGREE_TOL, far: 
     >>> c.passed, round(c.distance, 12)
     (True, 1e-09)
     """
-    sep = pg.point_separation(p, q, scale=scale)
-    cp = pg.to_cartesian(p, scale=scale * far, tol=1.0)
-    cq = pg.to_cartesian(q, scale=scale * far, tol=1.0)
+    sep = pg.point_separation(p, q, scale=scale, origin=origin)
+    pc, qc = pg.translate_point(p, -origin[0], -origin[1]), pg.translate_point(q, -origin[0], -origin[1])
+    cp = pg.to_cartesian(pc, scale=scale * far, tol=1.0)
+    cq = pg.to_cartesian(qc, scale=scale * far, tol=1.0)
     if cp is not None and cq is not None:
         return PairCheck(sep, math.dist(cp, cq), None, sep <= tol)
     a = math.atan2(p[1], p[0])
@@ -88,7 +91,7 @@ def compare_centers(p, q, *, scale: float, tol: float = DEFAULT_AGREE_TOL, far: 
     return PairCheck(sep, None, math.degrees(d), sep <= tol)
 
 
-def collinearity_residuals(points: np.ndarray, n: int, *, scale: float = 1.0) -> tuple[np.ndarray, np.ndarray]:
+def collinearity_residuals(points: np.ndarray, n: int, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[np.ndarray, np.ndarray]:
     """Collinearity residual of the three centers of every link triple.
 
     Parameters
@@ -100,8 +103,10 @@ def collinearity_residuals(points: np.ndarray, n: int, *, scale: float = 1.0) ->
     n : int
         Number of links.
     scale : float, default 1.0
-        Drawing size: each point is sized as ``(x/scale, y/scale, w)`` and
-        made a unit vector before the determinant is taken.
+        Drawing size: each point is sized as ``((x - ox w)/scale, (y - oy w)/scale, w)``
+        and made a unit vector before the determinant is taken.
+    origin : (float, float), default (0, 0)
+        Drawing centre ``(ox, oy)``.
 
     Returns
     -------
@@ -117,7 +122,10 @@ def collinearity_residuals(points: np.ndarray, n: int, *, scale: float = 1.0) ->
     if n < 3:
         return np.zeros((0, 3), dtype=int), np.zeros(0)
     i, j, k = (np.asarray(x) for x in zip(*[(a, b, c) for a in range(n) for b in range(a + 1, n) for c in range(b + 1, n)]))
-    sized = np.asarray(points, dtype=float) * np.array([1.0 / scale, 1.0 / scale, 1.0])
+    pts = np.asarray(points, dtype=float)
+    sized = np.stack(
+        [(pts[:, 0] - origin[0] * pts[:, 2]) / scale, (pts[:, 1] - origin[1] * pts[:, 2]) / scale, pts[:, 2]], axis=1
+    )
     sized = sized / np.linalg.norm(sized, axis=1, keepdims=True)
     pid = lambda a, b: a * n - a * (a + 1) // 2 + (b - a - 1)  # noqa: E731 - vectorised pair_index
     pij, pik, pjk = sized[pid(i, j)], sized[pid(i, k)], sized[pid(j, k)]

@@ -36,6 +36,8 @@ __all__ = [
     "line_angle_sine",
     "collinearity",
     "point_on_line",
+    "translate_point",
+    "translate_line",
 ]
 
 Triple = tuple  # (x, y, w) of any number type
@@ -114,6 +116,32 @@ def meet(l: Sequence, m: Sequence) -> Triple:
     return cross(l, m)
 
 
+def translate_point(p: Sequence, dx, dy) -> Triple:
+    """The point moved by ``(dx, dy)``; a point at infinity stays where it is.
+
+    Examples
+    --------
+    >>> translate_point((2.0, 4.0, 2.0), 1.0, 0.0)
+    (4.0, 4.0, 2.0)
+    >>> translate_point((1.0, 0.0, 0.0), 5.0, 5.0)
+    (1.0, 0.0, 0.0)
+    """
+    return (p[0] + dx * p[2], p[1] + dy * p[2], p[2])
+
+
+def translate_line(l: Sequence, dx, dy) -> Triple:
+    """The line moved by ``(dx, dy)`` (every point of it moved so).
+
+    Examples
+    --------
+    The line y = 1 moved up by 2 is y = 3:
+
+    >>> translate_line((0.0, 1.0, -1.0), 0.0, 2.0)
+    (0.0, 1.0, -3.0)
+    """
+    return (l[0], l[1], l[2] - l[0] * dx - l[1] * dy)
+
+
 def is_null(t: Sequence) -> bool:
     """True when every coordinate of ``t`` is exactly zero (exact arithmetic)."""
     return t[0] == 0 and t[1] == 0 and t[2] == 0
@@ -142,14 +170,15 @@ def to_cartesian(p: Sequence, *, scale: float = 1.0, tol: float = 1e-12):
     return (x / w, y / w)
 
 
-def normalized_point(p: Sequence, *, scale: float = 1.0) -> tuple[float, float, float]:
+def normalized_point(p: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[float, float, float]:
     """Canonical representative of a float point, sized at a drawing scale.
 
-    Returns the same projective point, divided so that ``(x/scale, y/scale, w)``
-    is a unit vector and signed so that its first non-zero coordinate of
-    ``(w, x, y)`` is positive.  Points that are the same projective point give
-    the same triple, whether finite or at infinity, and the coordinates stay of
-    drawing size however far the point lies.
+    Returns the same projective point, divided so that
+    ``((x - ox w)/scale, (y - oy w)/scale, w)`` is a unit vector, and signed
+    so that its first non-zero coordinate of ``(w, x, y)`` is positive.  Points
+    that are the same projective point give the same triple, whether finite
+    or at infinity, and the coordinates stay of drawing size however far the
+    point lies.
 
     Raises
     ------
@@ -162,7 +191,8 @@ def normalized_point(p: Sequence, *, scale: float = 1.0) -> tuple[float, float, 
     (7.071067811865475, 0.0, 0.7071067811865475)
     """
     x, y, w = float(p[0]), float(p[1]), float(p[2])
-    n = math.sqrt((x / scale) ** 2 + (y / scale) ** 2 + w * w)
+    u = _sized_at((x, y, w), scale, origin)
+    n = math.sqrt(dot(u, u))
     if n == 0.0 or not math.isfinite(n):
         raise ValueError(f"not a point: {tuple(p)!r}")
     key = w if w != 0.0 else (x if x != 0.0 else y)
@@ -171,13 +201,14 @@ def normalized_point(p: Sequence, *, scale: float = 1.0) -> tuple[float, float, 
     return (x / n, y / n, w / n)
 
 
-def normalized_line(l: Sequence, *, scale: float = 1.0) -> tuple[float, float, float]:
+def normalized_line(l: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[float, float, float]:
     """Canonical representative of a float line at a drawing scale (dual of :func:`normalized_point`).
 
-    ``(a*scale, b*scale, c)`` of the result is a unit vector.
+    The line about ``origin``, its direction part times ``scale``, is a unit vector.
     """
     a, b, c = float(l[0]), float(l[1]), float(l[2])
-    n = math.sqrt((a * scale) ** 2 + (b * scale) ** 2 + c * c)
+    u = _sized_line_at((a, b, c), scale, origin)
+    n = math.sqrt(dot(u, u))
     if n == 0.0 or not math.isfinite(n):
         raise ValueError(f"not a line: {tuple(l)!r}")
     key = a if a != 0.0 else (b if b != 0.0 else c)
@@ -195,7 +226,7 @@ def _sine(u: Sequence, v: Sequence) -> float:
     return math.sqrt(dot(c, c)) / (nu * nv)
 
 
-def point_separation(p: Sequence, q: Sequence, *, scale: float = 1.0) -> float:
+def point_separation(p: Sequence, q: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> float:
     """Scale-free separation of two float points, finite or at infinity.
 
     It is the sine of the angle between the rays of ``(x/scale, y/scale, w)``
@@ -203,6 +234,8 @@ def point_separation(p: Sequence, q: Sequence, *, scale: float = 1.0) -> float:
     to their distance divided by ``scale``; for two points at infinity it is the
     sine of the angle between their directions; it is 0 only for the same
     projective point.  A null triple has separation 0 from everything.
+    The measure is taken about ``origin`` (the drawing's centre), so it does
+    not change when the whole drawing is moved together with its origin.
 
     Examples
     --------
@@ -211,21 +244,30 @@ def point_separation(p: Sequence, q: Sequence, *, scale: float = 1.0) -> float:
     >>> point_separation((1.0, 0.0, 0.0), (-2.0, 0.0, 0.0))
     0.0
     """
-    u = (float(p[0]) / scale, float(p[1]) / scale, float(p[2]))
-    v = (float(q[0]) / scale, float(q[1]) / scale, float(q[2]))
-    return _sine(u, v)
+    return _sine(_sized_at(p, scale, origin), _sized_at(q, scale, origin))
 
 
-def line_separation(l: Sequence, m: Sequence, *, scale: float = 1.0) -> float:
+def _sized_at(p: Sequence, scale: float, origin) -> tuple[float, float, float]:
+    """``((x - ox w) / scale, (y - oy w) / scale, w)`` of a float point."""
+    w = float(p[2])
+    return ((float(p[0]) - origin[0] * w) / scale, (float(p[1]) - origin[1] * w) / scale, w)
+
+
+def _sized_line_at(l: Sequence, scale: float, origin) -> tuple[float, float, float]:
+    """The line about ``origin``, its direction part multiplied by ``scale``."""
+    a, b = float(l[0]), float(l[1])
+    c = float(l[2]) + a * origin[0] + b * origin[1]
+    return (a * scale, b * scale, c)
+
+
+def line_separation(l: Sequence, m: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> float:
     """Scale-free separation of two float lines (0 when they coincide).
 
     The dual of :func:`point_separation`: the lines are rescaled to the drawing
     (``(a*scale, b*scale, c)``) and the sine of the angle between the triples is
     returned.  Two lines that coincide within ``tol`` locate no point.
     """
-    u = (float(l[0]) * scale, float(l[1]) * scale, float(l[2]))
-    v = (float(m[0]) * scale, float(m[1]) * scale, float(m[2]))
-    return _sine(u, v)
+    return _sine(_sized_line_at(l, scale, origin), _sized_line_at(m, scale, origin))
 
 
 def line_angle_sine(l: Sequence, m: Sequence) -> float:
@@ -242,34 +284,39 @@ def line_angle_sine(l: Sequence, m: Sequence) -> float:
     return abs(a1 * b2 - a2 * b1) / (n1 * n2)
 
 
-def collinearity(p: Sequence, q: Sequence, r: Sequence, *, scale: float = 1.0) -> float:
+def collinearity(p: Sequence, q: Sequence, r: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> float:
     """Scale-free collinearity residual of three float points (0 when collinear).
 
-    The determinant of the three points sized at the drawing scale (each
-    ``(x/scale, y/scale, w)`` a unit vector): the volume of the parallelepiped
-    they span, at most 1.  A null triple (undefined point) gives 0.
+    The determinant of the three points sized at the drawing scale about
+    ``origin`` (each ``((x - ox w)/scale, (y - oy w)/scale, w)`` made a unit
+    vector): the volume of the parallelepiped they span, at most 1.  A null
+    triple (undefined point) gives 0.
 
     Examples
     --------
     >>> collinearity((0.0, 0.0, 1.0), (1.0, 1.0, 1.0), (1.0, 1.0, 0.0))
     0.0
     """
-    try:
-        u, v, w = (_sized(normalized_point(t, scale=scale), scale) for t in (p, q, r))
-    except ValueError:
+    vs = [_unit(_sized_at(t, scale, origin)) for t in (p, q, r)]
+    if any(v is None for v in vs):
         return 0.0
-    return abs(dot(cross(u, v), w))
+    return abs(dot(cross(vs[0], vs[1]), vs[2]))
 
 
-def _sized(p, scale):
-    return (p[0] / scale, p[1] / scale, p[2])
+def _unit(v):
+    n = math.sqrt(dot(v, v))
+    if n == 0.0 or not math.isfinite(n):
+        return None
+    return (v[0] / n, v[1] / n, v[2] / n)
 
 
-def point_on_line(p: Sequence, l: Sequence, *, scale: float = 1.0) -> float:
-    """Scale-free incidence residual of a float point and line (0 when the point is on the line)."""
-    try:
-        u = _sized(normalized_point(p, scale=scale), scale)
-        a, b, c = normalized_line(l, scale=scale)
-    except ValueError:
+def point_on_line(p: Sequence, l: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> float:
+    """Scale-free incidence residual of a float point and line (0 when the point is on the line).
+
+    Taken about ``origin`` like :func:`point_separation`.
+    """
+    u = _unit(_sized_at(p, scale, origin))
+    v = _unit(_sized_line_at(l, scale, origin))
+    if u is None or v is None:
         return 0.0
-    return abs(u[0] * a * scale + u[1] * b * scale + u[2] * c)
+    return abs(dot(u, v))

@@ -25,7 +25,7 @@ each through which two centers, via which third link.
 from __future__ import annotations
 
 from collections import deque
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Iterable, Sequence
 
 from . import projective as pg
@@ -113,8 +113,9 @@ class ThreeCentersResult:
     ----------
     n_links : int
     points : tuple
-        Per pair (see :func:`pair_index`): the located center as a unit
-        homogeneous triple (at the drawing scale), or ``None``.
+        Per pair (see :func:`pair_index`): the located center as a
+        homogeneous triple (canonical, see
+        :func:`~mechgraph.projective.normalized_point`), or ``None``.
     derivations : tuple
         Per pair: its :class:`Derivation`, or ``None`` when not located.
     loci : tuple
@@ -153,6 +154,7 @@ def solve_three_centers(
     line_seeds: Iterable[tuple[int, int, Sequence, str | None, str]] = (),
     *,
     scale: float = 1.0,
+    origin=(0.0, 0.0),
     tol: float = 1e-9,
 ) -> ThreeCentersResult:
     """Locate every relative center the three-centers theorem can reach.
@@ -168,6 +170,10 @@ def solve_three_centers(
         Primary locus lines (contact normals).
     scale : float, default 1.0
         Size of the drawing, used to make the tolerance scale-free.
+    origin : (float, float), default (0, 0)
+        Centre of the drawing.  The constructions are made in coordinates about
+        it, so that results and tolerances do not depend on where the drawing
+        lies; the results are given back in the caller's coordinates.
     tol : float, default 1e-9
         Two centers closer than this (in :func:`~mechgraph.projective.point_separation`,
         about distance / scale) count as one, and so they give no line; two
@@ -271,14 +277,15 @@ def solve_three_centers(
             p = pg.meet(best.line, loc.line)
             locate(i, j, p, Derivation("three-centers", loci=(best, loc), crossing=best_s))
 
+    ox, oy = float(origin[0]), float(origin[1])
     for i, j, p, joint, note in point_seeds:
         check(i, j)
         if points[pid[i][j]] is None:
-            locate(i, j, p, Derivation("joint", joint=joint, note=note))
+            locate(i, j, pg.translate_point(p, -ox, -oy), Derivation("joint", joint=joint, note=note))
     for i, j, line, joint, note in line_seeds:
         check(i, j)
         a, b = (i, j) if i < j else (j, i)
-        add_locus(a, b, Locus(tuple(line), joint=joint, note=note))
+        add_locus(a, b, Locus(pg.translate_line(line, -ox, -oy), joint=joint, note=note))
 
     while queue:
         i, j = queue.popleft()
@@ -297,10 +304,22 @@ def solve_three_centers(
                     continue
                 add_locus(target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared))
 
+    # back from coordinates about the drawing centre to the caller's
+    def back_point(p):
+        return None if p is None else norm(pg.translate_point(p, ox, oy), scale=scale, origin=(ox, oy))
+
+    def back_locus(loc: Locus) -> Locus:
+        return replace(loc, line=pg.translate_line(loc.line, ox, oy))
+
+    def back_derivation(d):
+        if d is None or not d.loci:
+            return d
+        return replace(d, loci=tuple(back_locus(x) for x in d.loci))
+
     return ThreeCentersResult(
         n_links=n,
-        points=tuple(points),
-        derivations=tuple(derivs),
-        loci=tuple(tuple(x) for x in loci),
+        points=tuple(back_point(p) for p in points),
+        derivations=tuple(back_derivation(d) for d in derivs),
+        loci=tuple(tuple(back_locus(x) for x in ls) for ls in loci),
         order=tuple(order),
     )

@@ -109,7 +109,7 @@ def _assert_methods_agree(a):
             continue
         assert c.check is not None and c.check.passed, c
         # the same measure, computed here and not by the cross-check
-        sep = pg.point_separation(c.point, c.velocity_point, scale=L)
+        sep = pg.point_separation(c.point, c.velocity_point, scale=L, origin=a.mechanism.centre)
         assert math.isclose(sep, c.check.separation, rel_tol=1e-6, abs_tol=1e-15)
         if _relative_motion(a, c) >= 1e-4:
             assert sep <= SEP_TOL, (c.pair, c.check)
@@ -292,9 +292,9 @@ def test_parallelogram_has_centers_at_infinity(o2, crank, base):
     kind=kinds,
     seed=seeds,
     angle=st.floats(-math.pi, math.pi),
-    # up to ten drawing sizes away: far offsets lose precision in the
-    # three-centers solver (see the xfail reproducers at the end)
-    shift=st.tuples(st.floats(-1e3, 1e3), st.floats(-1e3, 1e3)),
+    # up to a hundred thousand drawing sizes away (the constructions are made
+    # about the drawing centre; see the far-from-origin checks at the end)
+    shift=st.tuples(st.floats(-1e7, 1e7), st.floats(-1e7, 1e7)),
 )
 def test_rigid_motion_moves_centers_and_keeps_angular_velocities(kind, seed, angle, shift):
     m = _mechanism(kind, seed)
@@ -420,7 +420,7 @@ def test_generators_are_reproducible():
         assert _mechanism(kind, 42) == _mechanism(kind, 42)
 
 
-# ------------------------------------------------------- known core weaknesses
+# ------------------------------------------- far from the origin (a fixed defect)
 def _far_four_bar(offset: float, k: float) -> Mechanism:
     """The four-bar (0,0), (30,40), (120,60), (100,0), shrunk by k and moved by (offset, offset)."""
     pins = [(0.0, 0.0), (30.0, 40.0), (120.0, 60.0), (100.0, 0.0)]
@@ -437,30 +437,19 @@ def _true_errors(offset: float, k: float):
     return errors, far
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="core: three-centers centers lose accuracy quadratically with the distance of the drawing from "
-    "the origin (homogeneous joins/meets in absolute coordinates), and the scale-free separation shrinks "
-    "with that distance, so the cross-check passes wrong centers",
-)
-def test_far_from_origin_wrong_centers_pass_the_crosscheck():
-    # A 1.34-unit four-bar drawn at (1e7, 1e7), well inside MAX_COORDINATE.
+def test_far_from_origin_centers_stay_right_or_the_crosscheck_says_so():
+    # A 1.34-unit four-bar drawn at (1e7, 1e7), well inside MAX_COORDINATE.  Before
+    # the constructions were made about the drawing centre, L1-L3 came out ~8 % of
+    # the drawing off while the cross-check passed.
     errors, far = _true_errors(1e7, 0.01)
     wrong = {p: e for p, e in errors.items() if e > far.crosscheck.tol}
-    # either every center is right (to the agreement tolerance of the drawing size) ...
-    # ... or the cross-check must say so.  Observed: L1-L3 is off by ~8 % of the
-    # drawing, yet passed is True with max_separation ~3e-9.
-    assert not wrong or not far.passed, (wrong, far.crosscheck)
+    assert not wrong, (wrong, far.crosscheck)
+    assert far.passed
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="core: the solver's coincidence test (point_separation <= tol) is not translation invariant: far "
-    "from the origin, distinct centers count as one and a 'coincident' derivation is made up",
-)
-def test_far_from_origin_distinct_centers_are_taken_as_coincident():
-    # The same four-bar at (1e8, 1e8): frame-L2 is reported as coinciding with
-    # frame-L1 and L1-L2 (pins 0.5 units apart), 3 units (2.2 drawing sizes) from the true center.
+def test_far_from_origin_distinct_centers_are_not_taken_as_coincident():
+    # The same four-bar at (1e8, 1e8): frame-L2 was once reported as coinciding with
+    # frame-L1 and L1-L2 (pins 0.5 units apart), 3 units from the true center.
     errors, far = _true_errors(1e8, 0.01)
     assert far.center("frame", "L2").method == "three-centers", far.center("frame", "L2").derivation
     assert max(errors.values()) <= 1e-6

@@ -54,6 +54,10 @@ def test_readme_command_runs(args, tmp_path, monkeypatch, capsys):
 def test_readme_table_excerpt_matches_the_demo(capsys):
     (excerpt,) = _blocks("text")
     assert main(["demo"]) == EXIT_OK
-    out = capsys.readouterr().out
+
+    def settled(text):  # the check column shows round-off, which may differ by platform
+        return re.sub(r"ok \S+ +", "ok ", text)
+
+    out = settled(capsys.readouterr().out)
     for line in excerpt.strip().splitlines()[1:]:
-        assert line in out, line
+        assert settled(line) in out, line
