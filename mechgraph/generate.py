@@ -281,20 +281,7 @@ def watt_six_bar(
     >>> m.n_links, len(m.joints)
     (6, 7)
     """
-    return Mechanism(
-        name=name,
-        links=_links(6),
-        joints=(
-            _pin("O2", "frame", "L1", o2),
-            _pin("A", "L1", "L2", a),
-            _pin("B", "L2", "L3", b),
-            _pin("O4", "frame", "L3", o4),
-            _pin("C", "L3", "L4", c),
-            _pin("D", "L4", "L5", d),
-            _pin("O6", "frame", "L5", o6),
-        ),
-        drivers=(Driver("O2", rate=float(rate)),),
-    )
+    return _six_bar("L3", (o2, a, b, o4, c, d, o6), rate, name)
 
 
 def stephenson_six_bar(
@@ -334,6 +321,12 @@ def stephenson_six_bar(
     >>> m.joint_by_name["C"].links
     ('L2', 'L4')
     """
+    return _six_bar("L2", (o2, a, b, o4, c, d, o6), rate, name)
+
+
+def _six_bar(second_loop_on: str, pins, rate: float, name: str) -> Mechanism:
+    """A four-bar frame-L1-L2-L3 with a dyad L4-L5 from ``second_loop_on`` to the frame."""
+    o2, a, b, o4, c, d, o6 = pins
     return Mechanism(
         name=name,
         links=_links(6),
@@ -342,7 +335,7 @@ def stephenson_six_bar(
             _pin("A", "L1", "L2", a),
             _pin("B", "L2", "L3", b),
             _pin("O4", "frame", "L3", o4),
-            _pin("C", "L2", "L4", c),
+            _pin("C", second_loop_on, "L4", c),
             _pin("D", "L4", "L5", d),
             _pin("O6", "frame", "L5", o6),
         ),
