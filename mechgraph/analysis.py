@@ -13,6 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from . import projective as pg
+from .arithmetic import FLOAT
 from .crosscheck import DEFAULT_AGREE_TOL, CrossCheck, PairCheck, collinearity_residuals, compare_centers
 from .model import Mechanism
 from .three_centers import Derivation, Locus, ThreeCentersResult, pairs, solve_three_centers
@@ -54,6 +55,10 @@ class Center:
         For a center of a two-input mechanism that depends on the ratio of the
         input rates: the homogeneous line it moves along as the ratio changes
         (through its positions under each input alone).
+    kind_point : tuple or None
+        In exact or high-precision runs: the center in that arithmetic's numbers.
+    arithmetic : object or None
+        The arithmetic of ``kind_point``.
     """
 
     i: int
@@ -68,6 +73,26 @@ class Center:
     loci: tuple = ()
     crossing: float = 1.0
     ratio_line: tuple | None = None
+    kind_point: tuple | None = None
+    arithmetic: object = None
+
+    def exact_text(self):
+        """``(x, y)`` as text in the run's arithmetic (fractions or surds when exact), ``("inf", "inf")``
+        style ``None`` at infinity, or None when the run was in floating point or the center is undefined.
+        """
+        if self.kind_point is None or self.arithmetic is None:
+            return None
+        ar = self.arithmetic
+        x, y, w = self.kind_point
+        if w == ar.zero:
+            return None
+        return (ar.text(x / w), ar.text(y / w))
+
+    def exact_direction_text(self):
+        """For a center at infinity in an exact or high-precision run: its direction ``(dx, dy)`` as text."""
+        if self.kind_point is None or self.arithmetic is None or self.kind_point[2] != self.arithmetic.zero:
+            return None
+        return (self.arithmetic.text(self.kind_point[0]), self.arithmetic.text(self.kind_point[1]))
 
     def cartesian(self, scale: float, *, far: float = 1e12):
         """``(x, y)``, or None when the center lies at infinity (see :func:`~mechgraph.projective.to_cartesian`)."""
@@ -96,6 +121,8 @@ class Analysis:
     velocity : VelocityState or None
     three_centers : ThreeCentersResult
     crosscheck : CrossCheck
+    arithmetic : str
+        ``"float"``, ``"exact"`` or ``"precision"``.
     """
 
     mechanism: Mechanism
@@ -103,6 +130,7 @@ class Analysis:
     velocity: VelocityState | None
     three_centers: ThreeCentersResult
     crosscheck: CrossCheck
+    arithmetic: str = "float"
 
     def center(self, a: str, b: str) -> Center:
         """The center of the two named links.
@@ -126,8 +154,16 @@ class Analysis:
         return self.crosscheck.passed
 
 
-def primary_seeds(mech: Mechanism, poses=None):
+def primary_seeds(mech: Mechanism, poses=None, arithmetic=FLOAT):
     """Primary centers and locus lines of every joint, as seeds of the three-centers solver.
+
+    Parameters
+    ----------
+    mech : Mechanism
+    poses : ndarray, optional
+        Link poses; the case's own position by default.
+    arithmetic : optional
+        Number kind of the triples; floating point by default.
 
     Returns
     -------
@@ -138,7 +174,7 @@ def primary_seeds(mech: Mechanism, poses=None):
     pts, lines = [], []
     for jt in mech.joints:
         a, b = (mech.index[x] for x in jt.links)
-        pr = jt.primary(poses[a], poses[b])
+        pr = jt.primary(poses[a], poses[b], arithmetic)
         if pr.point is not None:
             pts.append((a, b, pr.point, jt.name, pr.note))
         else:
@@ -146,7 +182,7 @@ def primary_seeds(mech: Mechanism, poses=None):
     return pts, lines
 
 
-def locate_centers(mech: Mechanism, poses=None, *, tol: float = 1e-9) -> ThreeCentersResult:
+def locate_centers(mech: Mechanism, poses=None, *, tol: float = 1e-9, arithmetic=None) -> ThreeCentersResult:
     """Every relative center the three-centers theorem reaches, from the joints alone.
 
     Parameters
@@ -156,6 +192,8 @@ def locate_centers(mech: Mechanism, poses=None, *, tol: float = 1e-9) -> ThreeCe
         Link poses; the case's own position by default.
     tol : float, default 1e-9
         Coincidence tolerance (see :func:`~mechgraph.three_centers.solve_three_centers`).
+    arithmetic : optional
+        Number kind (:mod:`mechgraph.arithmetic`); floating point with ``tol`` by default.
 
     Returns
     -------
@@ -168,8 +206,10 @@ def locate_centers(mech: Mechanism, poses=None, *, tol: float = 1e-9) -> ThreeCe
     >>> r.n_located, len(r.unresolved)
     (15, 0)
     """
-    pts, lines = primary_seeds(mech, poses)
-    return solve_three_centers(mech.n_links, pts, lines, scale=mech.scale, origin=mech.centre, tol=tol)
+    pts, lines = primary_seeds(mech, poses, arithmetic if arithmetic is not None else FLOAT)
+    return solve_three_centers(
+        mech.n_links, pts, lines, scale=mech.scale, origin=mech.centre, tol=tol, arithmetic=arithmetic
+    )
 
 
 def _pair_text(mech: Mechanism, p) -> str:
@@ -216,6 +256,17 @@ def _ratio_line(vel: VelocityState, i: int, j: int):
         return None
 
 
+def resolve_arithmetic(arithmetic, mech: Mechanism, *, tol: float = 1e-9, digits: int = 50):
+    """The arithmetic object for ``arithmetic`` (a kind name, an object, or None for floating point)."""
+    from .arithmetic import make_arithmetic
+
+    if arithmetic is None:
+        return None
+    if isinstance(arithmetic, str):
+        return None if arithmetic == "float" and tol == 1e-9 else make_arithmetic(arithmetic, mech, tol=tol, digits=digits)
+    return arithmetic
+
+
 def analyse(
     mech: Mechanism,
     poses=None,
@@ -225,6 +276,8 @@ def analyse(
     rank_tol: float = 1e-9,
     rest_tol: float = 1e-9,
     velocities: bool = True,
+    arithmetic=None,
+    digits: int = 50,
 ) -> Analysis:
     """Find all n(n-1)/2 relative centers at one position, with derivations and cross-check.
 
@@ -234,9 +287,12 @@ def analyse(
     poses : ndarray, shape (n_links, 3), optional
         Link poses; the case's own position by default.
     tol : float, default 1e-9
-        Coincidence tolerance of the three-centers solver.
+        Coincidence tolerance of the three-centers solver (floating point).
     agree_tol : float, default :data:`~mechgraph.crosscheck.DEFAULT_AGREE_TOL`
-        Cross-check tolerance (both methods, and collinearity of every triple).
+        Cross-check tolerance (both methods, collinearity of every triple,
+        velocity centers on their known lines).  In exact arithmetic every
+        test is exact (tolerance 0); in high precision the tolerance is at
+        most ``10**-(digits // 2)``.
     rank_tol : float, default 1e-9
         Rank threshold of the velocity analysis.
     rest_tol : float, default 1e-9
@@ -244,6 +300,12 @@ def analyse(
     velocities : bool, default True
         Run the velocity analysis.  Without it (``False``) only the centers
         the theorem reaches are given and nothing is cross-checked.
+    arithmetic : {None, "float", "exact", "precision"} or arithmetic object, optional
+        Number kind of the whole analysis (:mod:`mechgraph.arithmetic`);
+        floating point by default.  Exact and high precision work at the
+        case's own position.
+    digits : int, default 50
+        Working digits of ``"precision"``.
 
     Returns
     -------
@@ -254,6 +316,8 @@ def analyse(
     DriverError, SingularPositionError
         From the velocity analysis (drivers that do not match the freedoms; a
         dead point).
+    ArithmeticError_
+        The inputs do not fit the chosen arithmetic.
 
     Examples
     --------
@@ -263,45 +327,71 @@ def analyse(
     (15, True)
     >>> a.center("frame", "crank").derivation
     "pin of revolute 'O2'"
+    >>> e = analyse(demo_mechanism(), arithmetic="exact")
+    >>> e.center("frame", "coupler").exact_text()
+    ('5600/33', '7840/33')
 
     Notes
     -----
     Three-centers worklist O(n^3), one SVD and least-squares solve O(n^3), and
-    the vectorised triple check O(n^3).
+    the vectorised triple check O(n^3).  Exact arithmetic replaces the SVD by
+    exact row reduction in the smallest number field of the inputs.
 
     References
     ----------
     Aronhold-Kennedy theorem; relative centers as poles of relative twists
     (common practice, no single source).
     """
-    tc = locate_centers(mech, poses, tol=tol)
-    vel = analyse_velocities(mech, poses, rank_tol=rank_tol, rest_tol=rest_tol) if velocities else None
+    ar = resolve_arithmetic(arithmetic, mech, tol=tol, digits=digits)
+    kind = FLOAT if ar is None else ar
+    is_float = kind.name == "float"
+    if kind.exact:
+        agree_eff = 0.0
+    elif not is_float:
+        agree_eff = min(agree_tol, 10.0 ** -(kind.digits // 2))
+    else:
+        agree_eff = agree_tol
+    tc = locate_centers(mech, poses, tol=tol, arithmetic=ar)
+    vel = analyse_velocities(mech, poses, rank_tol=rank_tol, rest_tol=rest_tol, arithmetic=kind) if velocities else None
     L, O = mech.scale, mech.centre
     n = mech.n_links
     centers = []
     final = np.full((mech.n_pairs, 3), np.nan)
+    kind_final: list = [None] * mech.n_pairs
     worst_sep, worst_pair, compared = 0.0, None, 0
     worst_locus, worst_locus_pair = 0.0, None
     ratio_lines: dict[int, tuple | None] = {}
     all_pairs = pairs(n)
-    if vel is not None:
+    if vel is not None and is_float:
         ii, jj = (np.array(x, dtype=int) for x in zip(*all_pairs))
         rel = vel.twists[ii] - vel.twists[jj]
         rest_all = vel.twist_size(rel) <= vel.rest_tol * vel.reference_size if vel.reference_size > 0 else np.ones(len(ii), bool)
         poles = np.stack([-rel[:, 2], rel[:, 1], rel[:, 0]], axis=1)
+
+    def as_float(t):
+        return None if t is None else (t if is_float else pg.normalized_point([kind.to_float(c) for c in t], scale=L, origin=O))
+
     for q, (i, j) in enumerate(all_pairs):
         geo = tc.points[q]
         d = tc.derivations[q]
         vp, rest = None, False
         if vel is not None:
-            rest = bool(rest_all[q])
-            if not rest:
-                vp = pg.normalized_point(poles[q], scale=L, origin=O)
+            if is_float:
+                rest = bool(rest_all[q])
+                if not rest:
+                    vp = pg.normalized_point(poles[q], scale=L, origin=O)
+            else:
+                rest = vel.is_relative_rest(i, j)
+                if not rest:
+                    vp = kind.normalize_point(vel.kind_pole(i, j), scale=L, origin=O)
         check = None
         if geo is not None:
             point, method, text = geo, d.method, describe_derivation(mech, d)
             if vp is not None:
-                check = compare_centers(geo, vp, scale=L, origin=O, tol=agree_tol)
+                check = compare_centers(as_float(geo), as_float(vp), scale=L, origin=O, tol=agree_eff)
+                if not is_float:
+                    gap = kind.point_gap(geo, vp, scale=L, origin=O)
+                    check = PairCheck(gap, check.distance, check.angle_deg, gap <= agree_eff)
                 compared += 1
                 if check.separation > worst_sep or worst_pair is None:
                     worst_sep, worst_pair = max(worst_sep, check.separation), (i, j)
@@ -318,7 +408,7 @@ def analyse(
                 )
                 ratio_lines[q] = _ratio_line(vel, i, j)
             for loc in tc.loci[q]:
-                r = pg.point_on_line(vp, loc.line, scale=L, origin=O)
+                r = kind.on_line(vp, loc.line, scale=L, origin=O)
                 if r > worst_locus:
                     worst_locus, worst_locus_pair = r, (i, j)
         else:
@@ -329,25 +419,32 @@ def analyse(
                 if rest
                 else "not reachable by the three-centers theorem; run the velocity analysis for it"
             )
+        fpoint = as_float(point)
         if point is not None:
-            final[q] = point
+            final[q] = fpoint
+            kind_final[q] = point
         centers.append(
             Center(
                 i=i,
                 j=j,
                 pair=mech.pair_names(i, j),
-                point=point,
+                point=fpoint,
                 method=method,
                 derivation=text,
-                velocity_point=vp,
+                velocity_point=as_float(vp),
                 relative_rest=rest,
                 check=check,
                 loci=tc.loci[q] if geo is None else (),
                 crossing=d.crossing if d is not None else 1.0,
                 ratio_line=ratio_lines.get(q),
+                kind_point=None if is_float else point,
+                arithmetic=None if is_float else kind,
             )
         )
-    triples, res = collinearity_residuals(final, n, scale=L, origin=O)
+    if is_float:
+        triples, res = collinearity_residuals(final, n, scale=L, origin=O)
+    else:
+        triples, res = _kind_collinearity(kind, kind_final, n, L, O)
     if len(res):
         t = int(np.argmax(res))
         worst_t, max_c = tuple(int(x) for x in triples[t]), float(res[t])
@@ -360,8 +457,26 @@ def analyse(
         n_triples=len(res),
         max_collinearity=max_c,
         worst_triple=worst_t,
-        tol=agree_tol,
+        tol=agree_eff,
         max_locus_residual=worst_locus,
         worst_locus_pair=worst_locus_pair,
     )
-    return Analysis(mechanism=mech, centers=tuple(centers), velocity=vel, three_centers=tc, crosscheck=cc)
+    return Analysis(
+        mechanism=mech, centers=tuple(centers), velocity=vel, three_centers=tc, crosscheck=cc, arithmetic=kind.name
+    )
+
+
+def _kind_collinearity(ar, pts, n: int, L, O):
+    """Collinearity residual of every link triple, in the arithmetic's own numbers."""
+    from .three_centers import pair_index
+
+    triples, res = [], []
+    for i in range(n):
+        for j in range(i + 1, n):
+            for k in range(j + 1, n):
+                p, q, r = pts[pair_index(i, j, n)], pts[pair_index(i, k, n)], pts[pair_index(j, k, n)]
+                if p is None or q is None or r is None:
+                    continue
+                triples.append((i, j, k))
+                res.append(ar.collinearity(p, q, r, scale=L, origin=O))
+    return np.array(triples, dtype=int).reshape(-1, 3), np.array(res, dtype=float)

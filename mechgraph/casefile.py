@@ -39,6 +39,7 @@ from importlib import resources
 from pathlib import Path
 from typing import Any
 
+from .arithmetic import TypedFloat
 from .errors import CaseFileError, MechgraphError
 from .joints import JOINT_KINDS, CamContact, GearMesh, PinInSlot, Prismatic, Revolute, RollingContact
 from .model import LENGTH_UNITS, Driver, Link, Mechanism, PointOfInterest
@@ -93,8 +94,8 @@ class _Reader:
         if isinstance(v, bool) or not isinstance(v, (int, float)):
             self.fail(where, f"field '{key}' must be a number, got {v!r}")
         if not math.isfinite(v):
-            self.fail(where, f"field '{key}' must be finite, got {v!r}")
-        return float(v)
+            self.fail(where, f"field '{key}' must be finite, got {float(v)!r}")
+        return v if isinstance(v, TypedFloat) else float(v)
 
     def pair(self, table: dict, key: str, where: str):
         v = table.get(key)
@@ -102,18 +103,18 @@ class _Reader:
             self.fail(where, f"field '{key}' must be a point [x, y] of two numbers, got {v!r}")
         return (self.number(v[0], where, key), self.number(v[1], where, key))
 
-    def direction(self, table: dict, vec_key: str, where: str):
+    def direction(self, table: dict, vec_key: str, where: str) -> dict:
+        """The direction field as joint keyword arguments: ``{key: [dx, dy]}`` or ``{key_deg: degrees}``."""
         deg_key = vec_key + "_deg"
         has_vec, has_deg = vec_key in table, deg_key in table
         if has_vec == has_deg:
             self.fail(where, f"give exactly one of '{vec_key}' (a direction [dx, dy]) or '{deg_key}' (degrees from +x)")
         if has_deg:
-            a = math.radians(self.number(table[deg_key], where, deg_key))
-            return (math.cos(a), math.sin(a))
+            return {vec_key + "_deg": self.number(table[deg_key], where, deg_key)}
         d = self.pair(table, vec_key, where)
         if math.hypot(*d) == 0.0:
             self.fail(where, f"field '{vec_key}' is a zero-length direction {list(d)}; give a non-zero [dx, dy]")
-        return d
+        return {vec_key: d}
 
     def entries(self, doc: dict, key: str) -> list[dict]:
         v = doc.get(key, [])
@@ -171,7 +172,7 @@ def parse_case(text: str, path: str = "<case>") -> Mechanism:
     """
     r = _Reader(path)
     try:
-        doc = tomllib.loads(text)
+        doc = tomllib.loads(text, parse_float=TypedFloat)
     except tomllib.TOMLDecodeError as e:
         raise CaseFileError(f"not valid TOML: {e}", path=path, line=_toml_line(e)) from None
     r.keys(doc, _TOP_KEYS, "top level")
@@ -233,11 +234,11 @@ def _joint(r: _Reader, e: dict, k: int):
         if kind == "rolling":
             return RollingContact(name, links, at=r.pair(e, "at", where))
         if kind == "prismatic":
-            return Prismatic(name, links, at=r.pair(e, "at", where), axis=r.direction(e, "axis", where))
+            return Prismatic(name, links, at=r.pair(e, "at", where), **r.direction(e, "axis", where))
         if kind == "pin_in_slot":
-            return PinInSlot(name, links, at=r.pair(e, "at", where), slot=r.direction(e, "slot", where))
+            return PinInSlot(name, links, at=r.pair(e, "at", where), **r.direction(e, "slot", where))
         if kind == "cam":
-            return CamContact(name, links, at=r.pair(e, "at", where), normal=r.direction(e, "normal", where))
+            return CamContact(name, links, at=r.pair(e, "at", where), **r.direction(e, "normal", where))
         return _gear(r, e, where, name, links)
     except CaseFileError:
         raise
@@ -257,33 +258,15 @@ def _gear(r: _Reader, e: dict, where: str, name: str, links):
         if "internal" in e:
             r.fail(where, "'internal' goes with 'radii'; with 'pitch_point' the pitch point's place says it")
         pp = r.pair(e, "pitch_point", where)
-    else:
-        rv = e["radii"]
-        if not isinstance(rv, list) or len(rv) != 2:
-            r.fail(where, f"field 'radii' must be two pitch radii [r1, r2], got {rv!r}")
-        ra, rb = (r.number(x, where, "radii") for x in rv)
-        if ra <= 0 or rb <= 0:
-            r.fail(where, f"field 'radii' must be positive, got {rv!r}")
-        internal = e.get("internal", False)
-        if not isinstance(internal, bool):
-            r.fail(where, f"field 'internal' must be true or false, got {internal!r}")
-        (ax, ay), (bx, by) = centers
-        d = math.hypot(bx - ax, by - ay)
-        if d == 0.0:
-            r.fail(where, "the two gear centres coincide")
-        expect = abs(ra - rb) if internal else ra + rb
-        if abs(d - expect) > 1e-6 * max(d, expect):
-            r.fail(
-                where,
-                f"centre distance {d:.6g} does not match the radii: an {'internal' if internal else 'external'} "
-                f"pair needs {'|r1 - r2|' if internal else 'r1 + r2'} = {expect:.6g}",
-            )
-        ux, uy = (bx - ax) / d, (by - ay) / d
-        if internal and ra < rb:
-            pp = (ax - ra * ux, ay - ra * uy)  # the ring is the second gear: pitch point beyond a's centre
-        else:
-            pp = (ax + ra * ux, ay + ra * uy)
-    return GearMesh(name, links, centers=centers, pitch_point=pp)
+        return GearMesh(name, links, centers=centers, pitch_point=pp)
+    rv = e["radii"]
+    if not isinstance(rv, list) or len(rv) != 2:
+        r.fail(where, f"field 'radii' must be two pitch radii [r1, r2], got {rv!r}")
+    radii = tuple(r.number(x, where, "radii") for x in rv)
+    internal = e.get("internal", False)
+    if not isinstance(internal, bool):
+        r.fail(where, f"field 'internal' must be true or false, got {internal!r}")
+    return GearMesh(name, links, centers=centers, radii=radii, internal_pair=internal)
 
 
 def _driver(r: _Reader, e: dict, k: int, joints):
@@ -302,7 +285,7 @@ def _driver(r: _Reader, e: dict, k: int, joints):
     if joint is not None and joint.drive == "sliding" and key != "speed":
         r.fail(where, f"'{jname}' is a prismatic joint: give its rate as speed (length unit per second), not {key}")
     rate = value if key == "speed" else value * _RATE_KEYS[key]
-    return Driver(jname, rate)
+    return Driver(jname, rate, given=(e[key], key))
 
 
 def load_case(path) -> Mechanism:

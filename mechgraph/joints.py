@@ -24,6 +24,10 @@ position analysis treat all kinds alike:
 ``driver_row(pose_a, pose_b)``
     For drivable joints: the row whose value is the input rate.
 
+Every method takes an optional arithmetic (:mod:`mechgraph.arithmetic`) and
+computes in its numbers, so the same code serves floating point, exact and
+high-precision analyses.  Rows are lists of numbers of that kind.
+
 Geometry is stored in the links' own frames.  A case describes one position,
 and every link frame coincides with the global frame in that position, so the
 stored coordinates are the drawing's coordinates; a new position is a new set
@@ -39,6 +43,7 @@ from typing import ClassVar, NamedTuple
 import numpy as np
 
 from . import projective as pg
+from .arithmetic import FLOAT
 from .errors import ModelError
 
 __all__ = [
@@ -71,34 +76,31 @@ class Primary(NamedTuple):
 
 
 def rotate(v: Vec, theta: float) -> Vec:
-    """Rotate vector ``v`` by ``theta`` radians (counter-clockwise)."""
-    c, s = math.cos(theta), math.sin(theta)
-    return (c * v[0] - s * v[1], s * v[0] + c * v[1])
+    """Rotate vector ``v`` by ``theta`` radians (counter-clockwise), in floats."""
+    return FLOAT.rotate(v, theta)
 
 
 def place(local: Vec, pose) -> Vec:
-    """Global position of a link point given in the link's frame, at link pose ``(x, y, theta)``."""
-    r = rotate(local, pose[2])
-    return (pose[0] + r[0], pose[1] + r[1])
+    """Global position of a link point given in the link's frame, at link pose ``(x, y, theta)``, in floats."""
+    return FLOAT.place(local, pose)
 
 
-def _point_rows(r: Vec) -> np.ndarray:
+def _point_rows(r) -> list:
     """Rows of ``v_a(r) - v_b(r) = 0`` over ``(w_a, vx_a, vy_a, w_b, vx_b, vy_b)``."""
     x, y = r
-    return np.array(
-        [
-            [-y, 1.0, 0.0, y, -1.0, 0.0],
-            [x, 0.0, 1.0, -x, 0.0, -1.0],
-        ]
-    )
+    one, zero = x * 0 + 1, x * 0
+    return [
+        [-y, one, zero, y, -one, zero],
+        [x, zero, one, -x, zero, -one],
+    ]
 
 
-def _along_row(r: Vec, n: Vec) -> np.ndarray:
+def _along_row(r, n) -> list:
     """Row of ``n . (v_a(r) - v_b(r))`` over the two twists."""
     x, y = r
     nx, ny = n
     m = ny * x - nx * y
-    return np.array([m, nx, ny, -m, -nx, -ny])
+    return [m, nx, ny, -m, -nx, -ny]
 
 
 def _unit(v: Vec, what: str) -> Vec:
@@ -106,6 +108,29 @@ def _unit(v: Vec, what: str) -> Vec:
     if not (n > 0.0) or not math.isfinite(n):
         raise ModelError(f"{what} must be a non-zero, finite direction, got {list(v)}")
     return (v[0] / n, v[1] / n)
+
+
+def _direction(ar, given: Vec, deg, theta):
+    """A direction in the arithmetic ``ar``: from degrees when given (exact trigonometry), else the given vector."""
+    v = ar.trig_deg(deg) if deg is not None else (ar.num(given[0]), ar.num(given[1]))
+    return ar.rotate(v, theta) if theta != 0 else v
+
+
+def _set_direction(joint, field_name: str, deg_name: str):
+    """Shared __post_init__ of a direction field: degrees (if given) define it; keep the raw vector; store a unit one."""
+    deg = getattr(joint, deg_name)
+    what = f"{joint.label()}: field '{field_name}'"
+    if deg is not None:
+        if not math.isfinite(deg):
+            raise ModelError(f"{what}: the angle must be finite, got {deg!r}")
+        r = math.radians(deg)
+        raw = (math.cos(r), math.sin(r))
+    else:
+        raw = tuple(getattr(joint, field_name))
+        if len(raw) != 2:
+            raise ModelError(f"{what} must be a direction [dx, dy], got {list(raw)}")
+    object.__setattr__(joint, "_given_" + field_name, raw)
+    object.__setattr__(joint, field_name, _unit(raw, what))
 
 
 @dataclass(frozen=True)
@@ -135,10 +160,18 @@ class Joint:
         """The drawing points of the joint (for scale and checks)."""
         raise NotImplementedError
 
-    def primary(self, pose_a, pose_b) -> Primary:  # pragma: no cover - interface
+    def directions(self) -> tuple:
+        """The joint's directions as given: ``(vector, degrees or None)`` pairs (for exact arithmetic)."""
+        return ()
+
+    def exact_inputs(self) -> tuple:
+        """Further numbers the joint's geometry is built from (for exact arithmetic)."""
+        return ()
+
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:  # pragma: no cover - interface
         raise NotImplementedError
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:  # pragma: no cover - interface
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:  # pragma: no cover - interface
         raise NotImplementedError
 
     def residual(self, pose_a, pose_b) -> np.ndarray:
@@ -148,7 +181,7 @@ class Joint:
             "which mechgraph does not model yet; velocity analysis at the given position works"
         )
 
-    def driver_row(self, pose_a, pose_b) -> np.ndarray:
+    def driver_row(self, pose_a, pose_b, ar=FLOAT) -> list:
         """Row over the two twists whose value is the input rate of this joint."""
         raise ModelError(
             f"{self.label()} cannot take a driver; drivers go on revolute joints (rotation rate) "
@@ -173,20 +206,21 @@ class Revolute(Joint):
     def reference_points(self):
         return (self.at,)
 
-    def primary(self, pose_a, pose_b) -> Primary:
-        x, y = place(self.at, pose_a)
-        return Primary(pg.point(x, y), None, f"pin of revolute '{self.name}'")
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
+        x, y = ar.place(self.at, pose_a)
+        return Primary((x, y, ar.one), None, f"pin of revolute '{self.name}'")
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:
-        return _point_rows(place(self.at, pose_a))
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
+        return _point_rows(ar.place(self.at, pose_a))
 
     def residual(self, pose_a, pose_b) -> np.ndarray:
         a = place(self.at, pose_a)
         b = place(self.at, pose_b)
         return np.array([a[0] - b[0], a[1] - b[1]])
 
-    def driver_row(self, pose_a, pose_b) -> np.ndarray:
-        return np.array([-1.0, 0.0, 0.0, 1.0, 0.0, 0.0])
+    def driver_row(self, pose_a, pose_b, ar=FLOAT) -> list:
+        o, z = ar.one, ar.zero
+        return [-o, z, z, o, z, z]
 
 
 @dataclass(frozen=True)
@@ -201,28 +235,33 @@ class Prismatic(Joint):
 
     at: Vec = (0.0, 0.0)
     axis: Vec = (1.0, 0.0)
+    axis_deg: float | None = None
 
     kind: ClassVar[str] = "prismatic"
     freedoms: ClassVar[int] = 1
     drive: ClassVar[str | None] = "sliding"
 
     def __post_init__(self):
-        object.__setattr__(self, "axis", _unit(self.axis, f"{self.label()}: field 'axis'"))
+        _set_direction(self, "axis", "axis_deg")
 
     def reference_points(self):
         return (self.at,)
 
-    def _axis(self, pose_a) -> Vec:
-        return rotate(self.axis, pose_a[2])
+    def directions(self):
+        return ((self._given_axis, self.axis_deg),)
 
-    def primary(self, pose_a, pose_b) -> Primary:
-        ux, uy = self._axis(pose_a)
-        return Primary(pg.direction(-uy, ux), None, f"perpendicular to the axis of prismatic '{self.name}', at infinity")
+    def _axis(self, pose_a, ar=FLOAT):
+        return _direction(ar, self._given_axis, self.axis_deg, pose_a[2])
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:
-        ux, uy = self._axis(pose_a)
-        r = place(self.at, pose_a)
-        return np.vstack([np.array([1.0, 0.0, 0.0, -1.0, 0.0, 0.0]), _along_row(r, (-uy, ux))])
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
+        ux, uy = self._axis(pose_a, ar)
+        return Primary((-uy, ux, ar.zero), None, f"perpendicular to the axis of prismatic '{self.name}', at infinity")
+
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
+        ux, uy = self._axis(pose_a, ar)
+        r = ar.place(self.at, pose_a)
+        o, z = ar.one, ar.zero
+        return [[o, z, z, -o, z, z], _along_row(r, (-uy, ux))]
 
     def residual(self, pose_a, pose_b) -> np.ndarray:
         ux, uy = self._axis(pose_a)
@@ -230,10 +269,11 @@ class Prismatic(Joint):
         b = place(self.at, pose_b)
         return np.array([pose_a[2] - pose_b[2], -uy * (a[0] - b[0]) + ux * (a[1] - b[1])])
 
-    def driver_row(self, pose_a, pose_b) -> np.ndarray:
-        u = self._axis(pose_a)
-        r = place(self.at, pose_a)
-        return -_along_row(r, u)
+    def driver_row(self, pose_a, pose_b, ar=FLOAT) -> list:
+        ux, uy = self._axis(pose_a, ar)
+        n = ar.sqrt(ux * ux + uy * uy)
+        r = ar.place(self.at, pose_a)
+        return [-c for c in _along_row(r, (ux / n, uy / n))]
 
 
 @dataclass(frozen=True)
@@ -252,20 +292,20 @@ class _PointOnLine(Joint):
     def reference_points(self):
         return (self.at,)
 
-    def _normal(self, pose_b) -> Vec:  # pragma: no cover - interface
+    def _normal(self, pose_b, ar=FLOAT):  # pragma: no cover - interface
         raise NotImplementedError
 
-    def primary(self, pose_a, pose_b) -> Primary:
-        c = place(self.at, pose_a)
-        nx, ny = self._normal(pose_b)
-        line = pg.join(pg.point(*c), pg.direction(nx, ny))
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
+        c = ar.place(self.at, pose_a)
+        nx, ny = self._normal(pose_b, ar)
+        line = pg.join((c[0], c[1], ar.one), (nx, ny, ar.zero))
         return Primary(None, line, self._locus_note())
 
     def _locus_note(self) -> str:  # pragma: no cover - interface
         raise NotImplementedError
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:
-        return _along_row(place(self.at, pose_a), self._normal(pose_b))[None, :]
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
+        return [_along_row(ar.place(self.at, pose_a), self._normal(pose_b, ar))]
 
 
 @dataclass(frozen=True)
@@ -277,24 +317,28 @@ class PinInSlot(_PointOnLine):
     """
 
     slot: Vec = (1.0, 0.0)
+    slot_deg: float | None = None
 
     kind: ClassVar[str] = "pin_in_slot"
 
     def __post_init__(self):
-        object.__setattr__(self, "slot", _unit(self.slot, f"{self.label()}: field 'slot'"))
+        _set_direction(self, "slot", "slot_deg")
 
-    def _normal(self, pose_b) -> Vec:
-        ux, uy = rotate(self.slot, pose_b[2])
+    def directions(self):
+        return ((self._given_slot, self.slot_deg),)
+
+    def _normal(self, pose_b, ar=FLOAT):
+        ux, uy = _direction(ar, self._given_slot, self.slot_deg, pose_b[2])
         return (-uy, ux)
 
     def _locus_note(self) -> str:
         return f"normal to the slot through the pin of pin-in-slot '{self.name}'"
 
     def residual(self, pose_a, pose_b) -> np.ndarray:
-        nx, ny = self._normal(pose_b)
+        ux, uy = _direction(FLOAT, self._given_slot, self.slot_deg, pose_b[2])
         a = place(self.at, pose_a)
         b = place(self.at, pose_b)
-        return np.array([nx * (a[0] - b[0]) + ny * (a[1] - b[1])])
+        return np.array([-uy * (a[0] - b[0]) + ux * (a[1] - b[1])])
 
 
 @dataclass(frozen=True)
@@ -308,14 +352,18 @@ class CamContact(_PointOnLine):
     """
 
     normal: Vec = (0.0, 1.0)
+    normal_deg: float | None = None
 
     kind: ClassVar[str] = "cam"
 
     def __post_init__(self):
-        object.__setattr__(self, "normal", _unit(self.normal, f"{self.label()}: field 'normal'"))
+        _set_direction(self, "normal", "normal_deg")
 
-    def _normal(self, pose_b) -> Vec:
-        return rotate(self.normal, pose_b[2])
+    def directions(self):
+        return ((self._given_normal, self.normal_deg),)
+
+    def _normal(self, pose_b, ar=FLOAT):
+        return _direction(ar, self._given_normal, self.normal_deg, pose_b[2])
 
     def _locus_note(self) -> str:
         return f"common normal of cam contact '{self.name}'"
@@ -333,37 +381,83 @@ class RollingContact(Joint):
     def reference_points(self):
         return (self.at,)
 
-    def primary(self, pose_a, pose_b) -> Primary:
-        x, y = place(self.at, pose_a)
-        return Primary(pg.point(x, y), None, f"contact point of rolling contact '{self.name}'")
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
+        x, y = ar.place(self.at, pose_a)
+        return Primary((x, y, ar.one), None, f"contact point of rolling contact '{self.name}'")
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:
-        return _point_rows(place(self.at, pose_a))
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
+        return _point_rows(ar.place(self.at, pose_a))
 
 
 @dataclass(frozen=True)
 class GearMesh(Joint):
     """Two gears in mesh: the pitch circles roll without slip at the pitch point.
 
-    ``centers`` are the gear centres (of the first and the second link) and
-    ``pitch_point`` the point where the pitch circles touch, on the line of
-    centres: between the centres for an external pair, outside them for an
-    internal pair.  One constraint (a higher pair): the tangential velocities
-    of the two pitch circles agree at the pitch point, so the relative center
-    lies on the common tangent there.  With both centres held by one link (the
-    carrier) the relative center is the pitch point itself.
+    ``centers`` are the gear centres (of the first and the second link).  Give
+    either ``pitch_point``, the point where the pitch circles touch, on the
+    line of centres (between the centres for an external pair, outside them
+    for an internal pair), or ``radii``, the two pitch radii, with
+    ``internal`` for a ring gear pair; the centre distance must then match.
+    One constraint (a higher pair): the tangential velocities of the two pitch
+    circles agree at the pitch point, so the relative center lies on the
+    common tangent there.  With both centres held by one link (the
+    ``carrier``, found by the model) the relative center is the pitch point.
     """
 
     centers: tuple[Vec, Vec] = ((0.0, 0.0), (1.0, 0.0))
-    pitch_point: Vec = (0.5, 0.0)
+    pitch_point: Vec | None = None
+    radii: tuple[float, float] | None = None
+    internal_pair: bool | None = None
     carrier: str | None = None
 
     kind: ClassVar[str] = "gear"
     freedoms: ClassVar[int] = 2
     locates_point: ClassVar[bool] = False
 
+    def __post_init__(self):
+        if self.pitch_point is None and self.radii is None:
+            raise ModelError(f"{self.label()}: give one of pitch_point [x, y] or radii [r1, r2]")
+        if self.radii is not None:
+            p = self._pitch_from_radii(FLOAT)
+            if self.pitch_point is not None and math.dist(p, self.pitch_point) > 1e-9 * (1.0 + math.hypot(*p)):
+                raise ModelError(
+                    f"{self.label()}: pitch_point {list(self.pitch_point)} disagrees with the radii, which put it at "
+                    f"{[round(c, 9) for c in p]}; give one of the two"
+                )
+            object.__setattr__(self, "pitch_point", p)
+
+    def _pitch_from_radii(self, ar):
+        """The pitch point from the radii: on the line of centres, ``r1 / d`` of the way (no square root)."""
+        ra, rb = (ar.num(r) for r in self.radii)
+        fa, fb = ar.to_float(ra), ar.to_float(rb)
+        if not (fa > 0.0 and fb > 0.0):
+            raise ModelError(f"{self.label()}: the pitch radii must be positive, got {list(self.radii)}")
+        (ax, ay), (bx, by) = ((ar.num(c[0]), ar.num(c[1])) for c in self.centers)
+        internal = bool(self.internal_pair)
+        d = abs(fa - fb) if internal else fa + fb
+        if d == 0.0:
+            raise ModelError(f"{self.label()}: an internal pair of equal radii has no centre distance")
+        dist = math.hypot(ar.to_float(bx - ax), ar.to_float(by - ay))
+        if abs(dist - d) > 1e-6 * max(dist, d):
+            need = "|r1 - r2|" if internal else "r1 + r2"
+            raise ModelError(
+                f"{self.label()}: centre distance {dist:.6g} does not match the radii: an "
+                f"{'internal' if internal else 'external'} pair needs {need} = {d:.6g}"
+            )
+        # external: P = A + ra/(ra+rb) (B - A); internal: P = A + ra/(ra-rb) (B - A)  (ra - rb signed)
+        t = ra / (ra + rb) if not internal else ra / (ra - rb)
+        return (ax + t * (bx - ax), ay + t * (by - ay))
+
     def reference_points(self):
         return (self.centers[0], self.centers[1], self.pitch_point)
+
+    def exact_inputs(self):
+        return tuple(self.radii) if self.radii is not None else ()
+
+    def _pitch(self, pose_a, ar):
+        # from the radii in the arithmetic's own numbers (exact, or to full precision)
+        base = self._pitch_from_radii(ar) if self.radii is not None and ar.name != "float" else self.pitch_point
+        return ar.place(base, pose_a)
 
     @property
     def internal(self) -> bool:
@@ -373,36 +467,31 @@ class GearMesh(Joint):
         return (px - ax) * (px - bx) + (py - ay) * (py - by) > 0.0
 
     @property
-    def radii(self) -> tuple[float, float]:
-        """Pitch radii of the first and second gear."""
+    def pitch_radii(self) -> tuple[float, float]:
+        """Pitch radii of the first and second gear (from the pitch point)."""
         (ax, ay), (bx, by) = self.centers
         px, py = self.pitch_point
         return (math.hypot(px - ax, py - ay), math.hypot(px - bx, py - by))
 
-    def _tangent(self, pose_a) -> Vec:
-        a = place(self.centers[0], pose_a)
-        p = place(self.pitch_point, pose_a)
-        # The line of centres through a's centre and the pitch point (robust
-        # also when one pitch radius is tiny): its normal is the common tangent.
-        dx, dy = p[0] - a[0], p[1] - a[1]
-        if math.hypot(dx, dy) == 0.0:
-            b = self.centers[1]
-            dx, dy = b[0] - a[0], b[1] - a[1]
-        n = math.hypot(dx, dy)
-        return (-dy / n, dx / n)
+    def _tangent(self, pose_a, ar):
+        a = ar.place(self.centers[0], pose_a)
+        b = ar.place(self.centers[1], pose_a)
+        # normal to the line of centres: the common tangent direction
+        dx, dy = b[0] - a[0], b[1] - a[1]
+        return (-dy, dx)
 
-    def primary(self, pose_a, pose_b) -> Primary:
-        p = place(self.pitch_point, pose_a)
+    def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
+        p = self._pitch(pose_a, ar)
         if self.carrier is not None:
             return Primary(
-                pg.point(*p), None, f"pitch point of gear mesh '{self.name}' (centres held by '{self.carrier}')"
+                (p[0], p[1], ar.one), None, f"pitch point of gear mesh '{self.name}' (centres held by '{self.carrier}')"
             )
-        tx, ty = self._tangent(pose_a)
-        return Primary(None, pg.join(pg.point(*p), pg.direction(tx, ty)), f"common tangent of gear mesh '{self.name}'")
+        tx, ty = self._tangent(pose_a, ar)
+        return Primary(None, pg.join((p[0], p[1], ar.one), (tx, ty, ar.zero)), f"common tangent of gear mesh '{self.name}'")
 
-    def twist_rows(self, pose_a, pose_b) -> np.ndarray:
+    def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
         # t . (v_a(p) - v_b(p)) = 0 puts the center on the line through p along t.
-        return _along_row(place(self.pitch_point, pose_a), self._tangent(pose_a))[None, :]
+        return [_along_row(self._pitch(pose_a, ar), self._tangent(pose_a, ar))]
 
 
 #: Every joint kind by its case-file name.

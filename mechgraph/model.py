@@ -68,6 +68,25 @@ class Driver:
 
     joint: str
     rate: float
+    given: tuple | None = field(default=None, compare=False)
+
+    #: Exact factor from each case-file rate unit to rad/s (or unit/s).
+    UNIT_FACTORS = {"rad_per_s": "1", "speed": "1", "rpm": "pi/30", "deg_per_s": "pi/180"}
+
+    def exact_rate(self):
+        """The rate as an exact sympy number: the typed decimal times the unit's exact factor.
+
+        Examples
+        --------
+        >>> Driver("O2", 12.566370614359172, given=(120, "rpm")).exact_rate()
+        4*pi
+        """
+        from sympy import Rational, sympify
+
+        from .arithmetic import decimal_text
+
+        value, unit = self.given if self.given is not None else (self.rate, "rad_per_s")
+        return Rational(decimal_text(value)) * sympify(self.UNIT_FACTORS[unit])
 
 
 @dataclass(frozen=True)
@@ -390,6 +409,6 @@ def _check_gear(g: GearMesh, tol: float) -> None:
             f"{g.label()}: the pitch point {list(g.pitch_point)} is {off:.6g} off the line of centres; "
             "it must lie on the line through the two gear centres"
         )
-    ra, rb = g.radii
+    ra, rb = g.pitch_radii
     if ra <= tol or rb <= tol:
         raise ModelError(f"{g.label()}: a pitch radius is zero (pitch point on a gear centre); both radii must be positive")

@@ -84,7 +84,7 @@ def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
     for j in mech.joints:
         a, b = (mech.index[x] for x in j.links)
         r = np.atleast_1d(j.residual(poses[a], poses[b]))
-        rows = np.atleast_2d(j.twist_rows(poses[a], poses[b]))
+        rows = np.atleast_2d(np.asarray(j.twist_rows(poses[a], poses[b]), dtype=float))
         block = np.zeros((len(r), 3 * n))
         block[:, 3 * a : 3 * a + 3] += _pose_jacobian(rows[:, :3], poses[a])
         block[:, 3 * b : 3 * b + 3] += _pose_jacobian(rows[:, 3:], poses[b])
@@ -94,7 +94,7 @@ def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
         j = mech.joint_by_name[d.joint]
         a, b = (mech.index[x] for x in j.links)
         res.append(np.array([_driver_value(mech, j, poses[a], poses[b]) - targets[k]]))
-        row = j.driver_row(poses[a], poses[b])[None, :]
+        row = np.asarray(j.driver_row(poses[a], poses[b]), dtype=float)[None, :]
         block = np.zeros((1, 3 * n))
         block[:, 3 * a : 3 * a + 3] += _pose_jacobian(row[:, :3], poses[a])
         block[:, 3 * b : 3 * b + 3] += _pose_jacobian(row[:, 3:], poses[b])

@@ -29,6 +29,7 @@ from dataclasses import dataclass, replace
 from typing import Iterable, Sequence
 
 from . import projective as pg
+from .arithmetic import FloatArithmetic
 
 __all__ = [
     "Locus",
@@ -156,6 +157,7 @@ def solve_three_centers(
     scale: float = 1.0,
     origin=(0.0, 0.0),
     tol: float = 1e-9,
+    arithmetic=None,
 ) -> ThreeCentersResult:
     """Locate every relative center the three-centers theorem can reach.
 
@@ -178,7 +180,12 @@ def solve_three_centers(
         Two centers closer than this (in :func:`~mechgraph.projective.point_separation`,
         about distance / scale) count as one, and so they give no line; two
         lines closer than this (:func:`~mechgraph.projective.line_separation`)
-        coincide, and so they locate nothing.
+        coincide, and so they locate nothing.  Used by the default float
+        arithmetic; an ``arithmetic`` passed in brings its own.
+    arithmetic : optional
+        Number kind (:mod:`mechgraph.arithmetic`): seeds and results are
+        triples of its numbers, and it decides coincidence (exactly, in exact
+        arithmetic).  Floating point with ``tol`` by default.
 
     Returns
     -------
@@ -221,6 +228,7 @@ def solve_three_centers(
     """
     if not (tol > 0.0):
         raise ValueError(f"tol must be positive, got {tol!r}")
+    ar = arithmetic if arithmetic is not None else FloatArithmetic(tol)
     if not (scale > 0.0):
         raise ValueError(f"scale must be positive, got {scale!r}")
     n = int(n_links)
@@ -235,9 +243,10 @@ def solve_three_centers(
     seen_through: list[set] = [set() for _ in range(npairs)]
     order: list[int] = []
     queue: deque[tuple[int, int]] = deque()
-    sep_p = pg.point_separation
-    sep_l = pg.line_separation
-    norm = pg.normalized_point
+    same_point = ar.same_point
+    separation = ar.separation
+    norm = ar.normalize_point
+    limit = ar.tol
 
     def check(i, j):
         if not (0 <= i < n and 0 <= j < n) or i == j:
@@ -269,15 +278,15 @@ def solve_three_centers(
             seen_through[q].add(key)
         best, best_s = None, 0.0
         for other in loci[q]:
-            s = sep_l(other.line, loc.line, scale=scale)
+            s = separation(other.line, loc.line, scale=scale)
             if s > best_s:
                 best, best_s = other, s
         loci[q].append(loc)
-        if best is not None and best_s > tol:
+        if best is not None and best_s > limit:
             p = pg.meet(best.line, loc.line)
             locate(i, j, p, Derivation("three-centers", loci=(best, loc), crossing=best_s))
 
-    ox, oy = float(origin[0]), float(origin[1])
+    ox, oy = ar.num(origin[0]), ar.num(origin[1])
     for i, j, p, joint, note in point_seeds:
         check(i, j)
         if points[pid[i][j]] is None:
@@ -299,14 +308,14 @@ def solve_three_centers(
                 known_pt = points[pid[shared][k]]
                 target = (other, k) if other < k else (k, other)
                 kp = (shared, k) if shared < k else (k, shared)
-                if sep_p(pij, known_pt, scale=scale) <= tol:
+                if same_point(pij, known_pt, scale=scale):
                     locate(target[0], target[1], pij, Derivation("coincident", through=((i, j), kp)))
                     continue
                 add_locus(target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared))
 
     # back from coordinates about the drawing centre to the caller's
     def back_point(p):
-        return None if p is None else norm(pg.translate_point(p, ox, oy), scale=scale, origin=(ox, oy))
+        return None if p is None else norm(pg.translate_point(p, ox, oy), scale=scale, origin=origin)
 
     def back_locus(loc: Locus) -> Locus:
         return replace(loc, line=pg.translate_line(loc.line, ox, oy))

@@ -9,6 +9,11 @@ links i and j is the pole of their relative twist, the homogeneous point
 ``(-(vy_i - vy_j), vx_i - vx_j, w_i - w_j)``: finite, or at infinity when the
 two angular velocities are equal.
 
+The same code runs in every arithmetic of :mod:`mechgraph.arithmetic`: the
+joints give their rows in the arithmetic's numbers and the arithmetic does the
+rank decisions and the solve (SVD in floating point and high precision, exact
+row reduction in exact arithmetic).
+
 Notes
 -----
 Internally the rows are written about the centre of the drawing and the
@@ -23,6 +28,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .arithmetic import FLOAT, ArithmeticError_
 from .errors import DriverError, SingularPositionError
 from .model import Mechanism
 
@@ -49,44 +55,22 @@ def gruebler_mobility(mech: Mechanism) -> int:
     return 3 * (n - 1) - sum(j.constraints for j in mech.joints)
 
 
-def _shifted(mech: Mechanism, poses: np.ndarray) -> np.ndarray:
-    c = mech.centre
-    s = np.array(poses, dtype=float, copy=True)
-    s[:, 0] -= c[0]
-    s[:, 1] -= c[1]
-    return s
-
-
-def constraint_rows(mech: Mechanism, poses: np.ndarray | None = None):
-    """Velocity constraint matrix of all joints over the moving links' scaled twists.
-
-    Parameters
-    ----------
-    mech : Mechanism
-    poses : ndarray, shape (n_links, 3), optional
-        Link poses; the case's own position by default.
-
-    Returns
-    -------
-    A : ndarray, shape (rows, 3 * (n_links - 1))
-        Columns per moving link: ``(w * scale, vx_c, vy_c)`` with ``v_c`` the
-        velocity of the link point at the drawing centre.  Rows normalised.
-    row_joint : list of str
-        Joint name of each row.
-    """
+def _frame(mech: Mechanism, poses, ar):
+    """Link poses about the drawing centre, in the arithmetic's numbers."""
+    cx, cy = mech.centre
     if poses is None:
         poses = mech.reference_poses()
-    sp = _shifted(mech, poses)
-    n, g, L = mech.n_links, mech.ground_index, mech.scale
-    col = _columns(n, g)
-    blocks, names = [], []
-    for j in mech.joints:
-        a, b = (mech.index[x] for x in j.links)
-        rows = np.atleast_2d(j.twist_rows(sp[a], sp[b]))
-        blocks.append(_scatter(rows, a, b, col, n, L))
-        names += [j.name] * rows.shape[0]
-    A = np.vstack(blocks) if blocks else np.zeros((0, 3 * (n - 1)))
-    return _normalise_rows(A), names
+    if ar is FLOAT or ar.name == "float":
+        s = np.array(poses, dtype=float, copy=True)
+        s[:, 0] -= cx
+        s[:, 1] -= cy
+        return s
+    out = []
+    for x, y, t in np.asarray(poses, dtype=float):
+        if t != 0.0 and ar.exact:
+            raise ArithmeticError_("exact arithmetic works at the case's own position only (link rotations must be zero)")
+        out.append((ar.num(x) - ar.num(cx), ar.num(y) - ar.num(cy), ar.num(t) if t != 0.0 else 0))
+    return out
 
 
 def _columns(n: int, g: int) -> list[int | None]:
@@ -100,33 +84,63 @@ def _columns(n: int, g: int) -> list[int | None]:
     return out
 
 
-def _scatter(rows: np.ndarray, a: int, b: int, col, n: int, L: float) -> np.ndarray:
-    out = np.zeros((rows.shape[0], 3 * (n - 1)))
-    for link, part in ((a, rows[:, 0:3]), (b, rows[:, 3:6])):
-        c = col[link]
-        if c is None:
-            continue
-        out[:, c] += part[:, 0] / L
-        out[:, c + 1] += part[:, 1]
-        out[:, c + 2] += part[:, 2]
+def _scatter(rows, a: int, b: int, col, ncols: int, L, ar) -> list:
+    """Rows over (t_a, t_b) -> rows over the moving links' scaled twists ``(w * L, vx_c, vy_c)``."""
+    out = []
+    for r in rows:
+        full = [ar.zero] * ncols
+        for link, off in ((a, 0), (b, 3)):
+            c = col[link]
+            if c is None:
+                continue
+            full[c] = full[c] + r[off] / L
+            full[c + 1] = full[c + 1] + r[off + 1]
+            full[c + 2] = full[c + 2] + r[off + 2]
+        out.append(full)
     return out
 
 
-def _normalise_rows(A: np.ndarray) -> np.ndarray:
-    if A.size == 0:
-        return A
-    norms = np.linalg.norm(A, axis=1)
-    norms[norms == 0.0] = 1.0
-    return A / norms[:, None]
+def _rows(mech: Mechanism, frame, ar):
+    n, g = mech.n_links, mech.ground_index
+    col = _columns(n, g)
+    ncols = 3 * (n - 1)
+    L = ar.num(mech.scale)
+    rows, names = [], []
+    for j in mech.joints:
+        a, b = (mech.index[x] for x in j.links)
+        r = _scatter(j.twist_rows(frame[a], frame[b], ar), a, b, col, ncols, L, ar)
+        rows += r
+        names += [j.name] * len(r)
+    return rows, names, col, ncols, L
 
 
-def _rank(s: np.ndarray, rank_tol: float) -> int:
-    if s.size == 0 or s[0] == 0.0:
-        return 0
-    return int(np.sum(s > rank_tol * s[0]))
+def constraint_rows(mech: Mechanism, poses: np.ndarray | None = None, *, arithmetic=FLOAT):
+    """Velocity constraint matrix of all joints over the moving links' scaled twists.
+
+    Parameters
+    ----------
+    mech : Mechanism
+    poses : ndarray, shape (n_links, 3), optional
+        Link poses; the case's own position by default.
+    arithmetic : optional
+        Number kind (:mod:`mechgraph.arithmetic`); floating point by default.
+
+    Returns
+    -------
+    A : matrix of the arithmetic (ndarray for floats), shape (rows, 3 * (n_links - 1))
+        Columns per moving link: ``(w * scale, vx_c, vy_c)`` with ``v_c`` the
+        velocity of the link point at the drawing centre.
+    row_joint : list of str
+        Joint name of each row.
+    """
+    ar = arithmetic
+    rows, names, _, ncols, _ = _rows(mech, _frame(mech, poses, ar), ar)
+    return ar.matrix(rows, ncols), names
 
 
-def numerical_mobility(mech: Mechanism, poses: np.ndarray | None = None, *, rank_tol: float = 1e-9) -> tuple[int, int]:
+def numerical_mobility(
+    mech: Mechanism, poses: np.ndarray | None = None, *, rank_tol: float = 1e-9, arithmetic=FLOAT
+) -> tuple[int, int]:
     """Freedoms of the mechanism at this position from the rank of its velocity constraints.
 
     Parameters
@@ -134,7 +148,10 @@ def numerical_mobility(mech: Mechanism, poses: np.ndarray | None = None, *, rank
     mech : Mechanism
     poses : ndarray, optional
     rank_tol : float, default 1e-9
-        Singular values below ``rank_tol`` times the largest count as zero.
+        Singular values below ``rank_tol`` times the largest count as zero
+        (rows normalised first); exact arithmetic needs no threshold.
+    arithmetic : optional
+        Number kind; floating point by default.
 
     Returns
     -------
@@ -149,9 +166,8 @@ def numerical_mobility(mech: Mechanism, poses: np.ndarray | None = None, *, rank
     Gruebler-Kutzbach count where constraints are redundant (a parallelogram
     with a third parallel link) or the position is special (a change point).
     """
-    A, _ = constraint_rows(mech, poses)
-    s = np.linalg.svd(A, compute_uv=False) if A.size else np.zeros(0)
-    r = _rank(s, rank_tol)
+    A, _ = constraint_rows(mech, poses, arithmetic=arithmetic)
+    r = arithmetic.rank(A, rank_tol)
     return 3 * (mech.n_links - 1) - r, r
 
 
@@ -181,6 +197,17 @@ class VelocityState:
         Relative tolerance of :meth:`is_relative_rest`.
     reference_size : float
         Largest link twist size (see :meth:`twist_size`), the yardstick of relative rest.
+    arithmetic : object
+        The number kind the analysis ran in.
+    kind_basis : tuple or None
+        For exact and high-precision runs: the basis twists in the
+        arithmetic's own numbers, per driver, per link ``(w, vx, vy)``.
+    kind_twists : tuple or None
+        The twists in the arithmetic's numbers.  In exact arithmetic they are
+        proportional to the true twists by :attr:`rate_factor` (a driver rate in
+        rpm carries the factor pi/30, which no number field holds).
+    rate_factor : object
+        Exact common factor of the rates (sympy), 1 when the rates are rational.
     """
 
     link_names: tuple
@@ -194,6 +221,10 @@ class VelocityState:
     centre: tuple
     rest_tol: float
     reference_size: float
+    arithmetic: object = FLOAT
+    kind_basis: tuple | None = None
+    kind_twists: tuple | None = None
+    rate_factor: object = 1
 
     def twist_size(self, t) -> np.ndarray:
         """Size of twist(s) ``t`` (last axis ``(w, vx, vy)``): ``|(w * scale, v at the drawing centre)|``."""
@@ -218,8 +249,20 @@ class VelocityState:
         w, vx, vy = self.relative_twist(i, j)
         return (float(-vy), float(vx), float(w))
 
+    def kind_pole(self, i: int, j: int):
+        """The pole of pair (i, j) in the arithmetic's own numbers (floats for a float run)."""
+        if self.kind_twists is None:
+            return self.pole(i, j)
+        (wi, xi, yi), (wj, xj, yj) = self.kind_twists[i], self.kind_twists[j]
+        return (yj - yi, xi - xj, wi - wj)
+
     def is_relative_rest(self, i: int, j: int) -> bool:
-        """True when links i and j have (nearly) the same twist: their velocity pole is undefined."""
+        """True when links i and j have (nearly) the same twist: their velocity pole is undefined.
+
+        Exact arithmetic decides it exactly.
+        """
+        if self.kind_twists is not None and self.arithmetic.exact:
+            return all(c == self.arithmetic.zero for c in self.kind_pole(i, j))
         ref = self.reference_size
         if ref == 0.0:
             return True
@@ -241,12 +284,42 @@ def _twist_size(t: np.ndarray, scale: float, centre) -> np.ndarray:
     return np.sqrt((w * scale) ** 2 + (vx - w * cy) ** 2 + (vy + w * cx) ** 2)
 
 
+def _kind_rates(mech: Mechanism, ar):
+    """Driver rates in the arithmetic's numbers (exact: scaled by their common unit factor)."""
+    if ar.name == "float":
+        return [float(d.rate) for d in mech.drivers], 1
+    exact = [d.exact_rate() for d in mech.drivers]
+    if not ar.exact:
+        digits = getattr(ar, "digits", 50) + 5
+        return [ar.num(str(e.evalf(digits))) for e in exact], 1
+    if not exact:
+        return [], 1
+    from sympy import Rational
+
+    factor = None
+    parts = []
+    for e in exact:
+        coeff, rest = e.as_coeff_Mul()
+        if not isinstance(coeff, Rational):
+            raise ArithmeticError_(f"exact arithmetic: the rate {e} is not a rational multiple of a unit factor")
+        if factor is None:
+            factor = rest
+        elif rest != factor and coeff != 0:
+            raise ArithmeticError_(
+                "exact arithmetic needs every driver rate in the same unit (rpm, rad_per_s, deg_per_s or speed): "
+                f"the rates {', '.join(str(x) for x in exact)} have no common factor"
+            )
+        parts.append(coeff)
+    return [ar.num(str(p)) for p in parts], factor
+
+
 def analyse_velocities(
     mech: Mechanism,
     poses: np.ndarray | None = None,
     *,
     rank_tol: float = 1e-9,
     rest_tol: float = 1e-9,
+    arithmetic=FLOAT,
 ) -> VelocityState:
     """Solve the twist of every link from the joints and drivers.
 
@@ -257,10 +330,12 @@ def analyse_velocities(
         Link poses; the case's own position by default.
     rank_tol : float, default 1e-9
         Relative singular-value threshold for the rank decisions (mobility,
-        singular position).
+        singular position); exact arithmetic decides exactly.
     rest_tol : float, default 1e-9
         Two links whose relative twist is below this fraction of the largest
         link twist are at relative rest (pole undefined).
+    arithmetic : optional
+        Number kind (:mod:`mechgraph.arithmetic`); floating point by default.
 
     Returns
     -------
@@ -285,51 +360,56 @@ def analyse_velocities(
     Notes
     -----
     Builds the constraint matrix (2 rows per lower pair, 1 per higher pair) and
-    the driver rows, takes one SVD for the rank decisions and solves by least
-    squares for every driver's unit rate at once: O(n^3) for n links.
+    the driver rows, takes the rank decisions and solves for every driver's
+    unit rate at once: O(n^3) for n links.
     """
-    if poses is None:
-        poses = mech.reference_poses()
-    n, g, L = mech.n_links, mech.ground_index, mech.scale
-    A, row_joint = constraint_rows(mech, poses)
-    ncols = 3 * (n - 1)
-    s = np.linalg.svd(A, compute_uv=False) if A.size else np.zeros(0)
-    rank = _rank(s, rank_tol)
+    ar = arithmetic
+    n, g, Lf = mech.n_links, mech.ground_index, mech.scale
+    frame = _frame(mech, poses, ar)
+    rowsA, _, col, ncols, L = _rows(mech, frame, ar)
+    A = ar.matrix(rowsA, ncols)
+    rank = ar.rank(A, rank_tol)
     mobility = ncols - rank
     gm = gruebler_mobility(mech)
     drivers = mech.drivers
     if len(drivers) != mobility:
         _driver_count_error(mech, mobility, gm, len(drivers))
-    sp = _shifted(mech, poses)
-    col = _columns(n, g)
-    D = np.zeros((len(drivers), ncols))
-    for k, d in enumerate(drivers):
+    rowsD = []
+    for d in drivers:
         j = mech.joint_by_name[d.joint]
         a, b = (mech.index[x] for x in j.links)
-        D[k] = _scatter(j.driver_row(sp[a], sp[b])[None, :], a, b, col, n, L)[0]
-    dn = np.linalg.norm(D, axis=1) if len(drivers) else np.zeros(0)
-    M = np.vstack([A, D / dn[:, None]]) if len(drivers) else A
-    u, sv, vt = np.linalg.svd(M, full_matrices=True)
-    if _rank(sv, rank_tol) < ncols:
-        _singular_error(mech, vt[-1], col, drivers)
-    rhs = np.zeros((M.shape[0], len(drivers)))
-    for k in range(len(drivers)):
-        rhs[A.shape[0] + k, k] = 1.0 / dn[k]
-    sol = np.linalg.lstsq(M, rhs, rcond=None)[0] if len(drivers) else np.zeros((ncols, 0))
+        rowsD += _scatter([j.driver_row(frame[a], frame[b], ar)], a, b, col, ncols, L, ar)
+    M = ar.matrix(rowsA + rowsD, ncols)
+    if ar.rank(M, rank_tol) < ncols:
+        null = [float(ar.to_float(x)) for x in ar.null_vector(M)]
+        _singular_error(mech, np.array(null), col, drivers)
+    nd = len(drivers)
+    rhs = [[ar.zero] * nd for _ in rowsA] + [[ar.one if c == k else ar.zero for c in range(nd)] for k in range(nd)]
+    sol = ar.solve(M, ar.matrix(rhs, nd)) if nd else []
     cx, cy = mech.centre
-    basis = np.zeros((len(drivers), n, 3))
-    for i in range(n):
-        c = col[i]
-        if c is None:
-            continue
-        w = sol[c] / L
-        vcx, vcy = sol[c + 1], sol[c + 2]
-        # from the velocity at the drawing centre to the velocity at the origin
-        basis[:, i, 0] = w
-        basis[:, i, 1] = vcx + w * cy
-        basis[:, i, 2] = vcy - w * cx
+    ocx, ocy = ar.num(cx), ar.num(cy)
+    kind_basis = []
+    for k in range(nd):
+        links = []
+        for i in range(n):
+            c = col[i]
+            if c is None:
+                links.append((ar.zero, ar.zero, ar.zero))
+                continue
+            w = sol[c][k] / L
+            # from the velocity at the drawing centre to the velocity at the origin
+            links.append((w, sol[c + 1][k] + w * ocy, sol[c + 2][k] - w * ocx))
+        kind_basis.append(tuple(links))
+    basis = np.array([[[ar.to_float(x) for x in t] for t in links] for links in kind_basis]).reshape(nd, n, 3)
     rates = np.array([d.rate for d in drivers], dtype=float)
-    twists = np.tensordot(rates, basis, axes=1) if len(drivers) else np.zeros((n, 3))
+    twists = np.tensordot(rates, basis, axes=1) if nd else np.zeros((n, 3))
+    kind_twists = None
+    factor = 1
+    if ar.name != "float":
+        krates, factor = _kind_rates(mech, ar)
+        kind_twists = tuple(
+            tuple(sum((krates[k] * kind_basis[k][i][c] for k in range(nd)), ar.zero) for c in range(3)) for i in range(n)
+        )
     return VelocityState(
         link_names=mech.link_names,
         twists=twists,
@@ -338,10 +418,14 @@ def analyse_velocities(
         rates=rates,
         mobility=mobility,
         gruebler=gm,
-        scale=L,
+        scale=Lf,
         centre=mech.centre,
         rest_tol=rest_tol,
-        reference_size=float(_twist_size(twists, L, mech.centre).max(initial=0.0)),
+        reference_size=float(_twist_size(twists, Lf, mech.centre).max(initial=0.0)),
+        arithmetic=ar,
+        kind_basis=tuple(kind_basis) if ar.name != "float" else None,
+        kind_twists=kind_twists,
+        rate_factor=factor,
     )
 
 

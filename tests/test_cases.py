@@ -191,7 +191,7 @@ def _residual(mech, q, drive):
             out.append(float(nrm @ (_place(j.at, a) - _place(j.at, b))))
         elif isinstance(j, GearMesh):  # pitch circles roll: r_a dth_a = -/+ r_b dth_b relative to the carrier
             c = poses[idx[j.carrier]]
-            ra, rb = j.radii
+            ra, rb = j.pitch_radii
             sgn = -1.0 if j.internal else 1.0
             out.append(ra * (a[2] - c[2]) + sgn * rb * (b[2] - c[2]))
     for d, s in zip(mech.drivers, drive):

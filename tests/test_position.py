@@ -126,6 +126,6 @@ def test_velocity_rows_are_the_residual_jacobian(joint, theta):
     # Both links turned and moved together: the joint stays assembled.
     pose = np.array([1.2, -0.4, theta])
     J = _residual_jacobian(joint, pose, pose)
-    rows = np.atleast_2d(joint.twist_rows(pose, pose))
+    rows = np.atleast_2d(np.asarray(joint.twist_rows(pose, pose), dtype=float))
     mapped = np.hstack([_pose_jacobian(rows[:, :3], pose), _pose_jacobian(rows[:, 3:], pose)])
     assert np.allclose(J, mapped, atol=1e-7)
