@@ -91,6 +91,8 @@ def decimal_text(x) -> str:
     text = getattr(x, "text", None)
     if text is not None:
         return text.replace("_", "")
+    if isinstance(x, str):
+        return x
     if isinstance(x, int):
         return str(x)
     return repr(float(x))

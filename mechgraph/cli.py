@@ -51,6 +51,13 @@ def _parser() -> argparse.ArgumentParser:
         sp.add_argument("--tol", type=float, default=1e-9, help="coincidence tolerance of the three-centers solver, relative to the drawing size (default 1e-9)")
         sp.add_argument("--agree-tol", type=float, default=1e-6, help="cross-check tolerance, relative to the drawing size (default 1e-6)")
         sp.add_argument("--rank-tol", type=float, default=1e-9, help="relative singular-value threshold of the velocity analysis (default 1e-9)")
+        sp.add_argument(
+            "--arithmetic",
+            choices=["float", "exact", "precision"],
+            default="float",
+            help="number kind: float (default), exact (fractions and surds, every test exact) or precision (many digits)",
+        )
+        sp.add_argument("--digits", type=int, default=50, help="working digits of --arithmetic precision (default 50)")
 
     d = sub.add_parser("demo", help="analyse the bundled demo six-bar (a label applicator)", epilog=_EPILOG)
     outputs(d, ["table", "json", "csv"])
@@ -107,7 +114,11 @@ def _run(args) -> int:
             text = topology_table(topo, mech.name)
         _emit(text, args.output, inputs)
         return EXIT_OK
-    a = analyse(mech, tol=args.tol, agree_tol=args.agree_tol, rank_tol=args.rank_tol)
+    if args.digits < 16:
+        raise _UsageError(f"--digits must be at least 16, got {args.digits}")
+    a = analyse(
+        mech, tol=args.tol, agree_tol=args.agree_tol, rank_tol=args.rank_tol, arithmetic=args.arithmetic, digits=args.digits
+    )
     if args.format == "json":
         text = to_json(a, topo)
     elif args.format == "csv":

@@ -63,6 +63,9 @@ def _center_dict(c: Center, a: Analysis) -> dict:
             "angle_deg": c.check.angle_deg,
             "passed": c.check.passed,
         }
+    if c.kind_point is not None:
+        xy_text = c.exact_text()
+        out["text"] = {"x": xy_text[0], "y": xy_text[1]} if xy_text else {"direction": list(c.exact_direction_text())}
     if c.loci:
         out["known_lines"] = [list(loc.line) for loc in c.loci]
     if c.ratio_line is not None:
@@ -99,6 +102,9 @@ def _velocity_dict(a: Analysis) -> dict | None:
     for i, name in enumerate(m.link_names):
         entry = {"name": name, "angular_velocity": float(v.twists[i, 0])}
         entry["per_unit_input"] = {d: float(v.basis[k, i, 0]) for k, d in enumerate(v.driver_joints)}
+        text = angular_velocity_text(v, i)
+        if text is not None:
+            entry["angular_velocity_text"] = text
         links.append(entry)
     points = []
     for p in m.points:
@@ -118,6 +124,17 @@ def _velocity_dict(a: Analysis) -> dict | None:
     }
 
 
+def angular_velocity_text(v, i: int) -> str | None:
+    """Angular velocity of link ``i`` as text in the run's arithmetic (exact: e.g. ``-132*pi/191``), or None."""
+    if v.kind_twists is None:
+        return None
+    ar = v.arithmetic
+    w = v.kind_twists[i][0]
+    if ar.exact:
+        return str(ar.to_sympy(w) * v.rate_factor)
+    return ar.text(w)
+
+
 def to_dict(a: Analysis, topology: Topology | None = None) -> dict:
     """The whole analysis as plain data (the JSON report before encoding)."""
     m = a.mechanism
@@ -126,6 +143,7 @@ def to_dict(a: Analysis, topology: Topology | None = None) -> dict:
     return {
         "schema": SCHEMA,
         "caution": CAUTION,
+        "arithmetic": a.arithmetic,
         "mechanism": {"name": m.name, "unit": m.unit, "links": list(names), "ground": m.ground, "scale": m.scale},
         "topology": topology_dict(topology) if topology is not None else None,
         "velocity": _velocity_dict(a),
@@ -204,6 +222,12 @@ def _where(c: Center, a: Analysis, unit: str) -> str:
         return "undefined"
     L = a.mechanism.scale
     xy = c.cartesian(L)
+    if c.kind_point is not None and a.arithmetic == "exact":
+        t = c.exact_text()
+        if t is not None:
+            return f"({t[0]}, {t[1]}) {unit}"
+        d = c.exact_direction_text()
+        return f"at infinity, direction ({d[0]}, {d[1]})"
     if xy is not None:
         return f"({_f(_shown(xy[0], L), 7)}, {_f(_shown(xy[1], L), 7)}) {unit}"
     dx, dy = c.direction()
@@ -236,7 +260,12 @@ def to_table(a: Analysis, topology: Topology | None = None) -> str:
     """A readable report: every center with method, derivation and check; velocities; the cross-check."""
     m = a.mechanism
     u = m.unit
-    out = [f"mechgraph: relative instant centers of '{m.name}' ({m.n_links} links, {m.n_pairs} centers, lengths in {u})", f"CAUTION: {CAUTION}", ""]
+    mode = {"float": "", "exact": ", exact arithmetic", "precision": ", high-precision arithmetic"}[a.arithmetic]
+    out = [
+        f"mechgraph: relative instant centers of '{m.name}' ({m.n_links} links, {m.n_pairs} centers, lengths in {u}{mode})",
+        f"CAUTION: {CAUTION}",
+        "",
+    ]
     if topology is not None:
         out.append(topology_table(topology, m.name))
     rows = []
@@ -266,7 +295,9 @@ def to_table(a: Analysis, topology: Topology | None = None) -> str:
                 f"per unit '{d}': {_f(_shown(float(v.basis[k, i, 0]), float(abs(v.basis[k, :, 0]).max())))}"
                 for k, d in enumerate(v.driver_joints)
             )
-            out.append(f"  {name:<16} w = {_f(_shown(float(v.twists[i, 0]), wref)):>12}   {per}")
+            exact_w = angular_velocity_text(v, i) if a.arithmetic == "exact" else None
+            shown_w = exact_w if exact_w is not None else _f(_shown(float(v.twists[i, 0]), wref))
+            out.append(f"  {name:<16} w = {shown_w:>12}   {per}")
         for p in m.points:
             vx, vy = v.point_velocity(m.index[p.link], p.at)
             vx, vy = _shown(vx, vref), _shown(vy, vref)
