@@ -58,6 +58,15 @@ def _parser() -> argparse.ArgumentParser:
             help="number kind: float (default), exact (fractions and surds, every test exact) or precision (many digits)",
         )
         sp.add_argument("--digits", type=int, default=50, help="working digits of --arithmetic precision (default 50)")
+        sp.add_argument(
+            "--uncertainty",
+            nargs="?",
+            const=-1.0,
+            type=float,
+            metavar="TOL",
+            help="add how far each center moves for a drawing error of TOL length units "
+            "(default 0.2 %% of the drawing size); near dead points the float results are rechecked in high precision",
+        )
 
     d = sub.add_parser("demo", help="analyse the bundled demo six-bar (a label applicator)", epilog=_EPILOG)
     outputs(d, ["table", "json", "csv"])
@@ -119,12 +128,20 @@ def _run(args) -> int:
     a = analyse(
         mech, tol=args.tol, agree_tol=args.agree_tol, rank_tol=args.rank_tol, arithmetic=args.arithmetic, digits=args.digits
     )
+    trust = None
+    if args.uncertainty is not None:
+        from .conditioning import assess
+
+        if args.uncertainty != -1.0 and not args.uncertainty > 0.0:
+            raise _UsageError(f"--uncertainty must be a positive length, got {args.uncertainty}")
+        base = a if args.arithmetic == "float" else None
+        trust = assess(mech, base, input_tol=None if args.uncertainty == -1.0 else args.uncertainty)
     if args.format == "json":
-        text = to_json(a, topo)
+        text = to_json(a, topo, trust)
     elif args.format == "csv":
         text = to_csv(a)
     else:
-        text = to_table(a, topo)
+        text = to_table(a, topo, trust)
     _emit(text, args.output, inputs)
     if not a.passed:
         print(

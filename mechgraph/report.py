@@ -135,7 +135,51 @@ def angular_velocity_text(v, i: int) -> str | None:
     return ar.text(w)
 
 
-def to_dict(a: Analysis, topology: Topology | None = None) -> dict:
+def trust_dict(cond) -> dict:
+    """The conditioning assessment as plain data (the JSON report's ``trust``)."""
+    return {
+        "input_tol": cond.input_tol,
+        "input_tol_is_default": cond.input_tol_is_default,
+        "velocity_condition": cond.velocity_condition,
+        "rechecked_in_precision": cond.rechecked_in_precision,
+        "velocity_digits": dict(cond.velocity_digits),
+        "centers": [
+            {
+                "pair": c.pair,
+                "at_infinity": c.at_infinity,
+                "sensitivity": c.sensitivity,
+                "uncertainty": c.uncertainty,
+                "flags": list(c.flags),
+                "digits": c.digits,
+            }
+            for c in cond.centers
+        ],
+    }
+
+
+def trust_table(cond, unit: str) -> str:
+    """The conditioning assessment in words: uncertainty of each center at the drawing tolerance."""
+    src = " (default: 0.2 % of the drawing size, common practice)" if cond.input_tol_is_default else ""
+    out = [f"Trust at a drawing tolerance of {_f(cond.input_tol, 4)} {unit}{src}:"]
+    if cond.velocity_condition is not None:
+        out.append(f"  velocity system reciprocal condition {_f(cond.velocity_condition, 3)} (1 ideal, 0 singular)")
+    for c in cond.centers:
+        if c.at_infinity:
+            u = f"direction +- {math.degrees(c.uncertainty):.3g} deg"
+        else:
+            u = f"+- {_f(c.uncertainty, 3)} {unit}"
+        dig = f", {c.digits:.0f} digits sound" if c.digits is not None else ""
+        flags = "; " + "; ".join(c.flags) if c.flags else ""
+        out.append(f"  {c.pair:<24} {u:<28} (x{_f(c.sensitivity, 3)}{dig}){flags}")
+    if cond.velocity_digits:
+        worst = min(cond.velocity_digits.items(), key=lambda kv: kv[1])
+        out.append(
+            f"  angular velocities rechecked in high precision: the least sound is '{worst[0]}' with {worst[1]:.0f} digits"
+        )
+    return "\n".join(out) + "\n"
+
+
+def to_dict(a: Analysis, topology: Topology | None = None, trust=None) -> dict:
     """The whole analysis as plain data (the JSON report before encoding)."""
     m = a.mechanism
     cc = a.crosscheck
@@ -160,10 +204,11 @@ def to_dict(a: Analysis, topology: Topology | None = None) -> dict:
             "max_locus_residual": cc.max_locus_residual,
             "worst_locus_pair": [names[i] for i in cc.worst_locus_pair] if cc.worst_locus_pair else None,
         },
+        "trust": trust_dict(trust) if trust is not None else None,
     }
 
 
-def to_json(a: Analysis, topology: Topology | None = None) -> str:
+def to_json(a: Analysis, topology: Topology | None = None, trust=None) -> str:
     """JSON report (see README.md for the fields).
 
     Examples
@@ -175,7 +220,7 @@ def to_json(a: Analysis, topology: Topology | None = None) -> str:
     >>> doc["schema"], len(doc["centers"]), doc["crosscheck"]["passed"]
     ('mechgraph.centers/1', 15, True)
     """
-    return json.dumps(to_dict(a, topology), indent=2) + "\n"
+    return json.dumps(to_dict(a, topology, trust), indent=2) + "\n"
 
 
 CSV_FIELDS = ["link_a", "link_b", "x", "y", "at_infinity", "dir_x", "dir_y", "method", "separation", "relative_rest", "derivation"]
@@ -256,7 +301,7 @@ def topology_table(t: Topology, mech_name: str = "") -> str:
     return "\n".join(lines) + "\n"
 
 
-def to_table(a: Analysis, topology: Topology | None = None) -> str:
+def to_table(a: Analysis, topology: Topology | None = None, trust=None) -> str:
     """A readable report: every center with method, derivation and check; velocities; the cross-check."""
     m = a.mechanism
     u = m.unit
@@ -318,6 +363,8 @@ def to_table(a: Analysis, topology: Topology | None = None) -> str:
     if unreached:
         out.append(f"  {len(unreached)} center(s) not reachable by the three-centers theorem: {', '.join(c.pair for c in unreached)}")
     out.append("")
+    if trust is not None:
+        out.append(trust_table(trust, u))
     return "\n".join(out)
 
 
