@@ -342,6 +342,10 @@ def analyse(
     Aronhold-Kennedy theorem; relative centers as poles of relative twists
     (common practice, no single source).
     """
+    if poses is not None:
+        from .position import check_assembled
+
+        check_assembled(mech, poses)
     ar = resolve_arithmetic(arithmetic, mech, tol=tol, digits=digits)
     kind = FLOAT if ar is None else ar
     is_float = kind.name == "float"

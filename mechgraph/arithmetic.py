@@ -275,15 +275,16 @@ class PrecisionArithmetic(FloatArithmetic):
         return ((p[0] - ox * p[2]) / s, (p[1] - oy * p[2]) / s, p[2])
 
     def normalize_point(self, p, *, scale=1.0, origin=(0.0, 0.0)):
-        p = tuple(self.num(c) for c in p)
-        u = self._sized(p, scale, origin)
-        n = self.ctx.sqrt(u[0] ** 2 + u[1] ** 2 + u[2] ** 2)
+        """Finite: ``(x/w, y/w, 1)``; at infinity: the unit direction (as :func:`mechgraph.projective.normalized_point`)."""
+        x, y, w = (self.num(c) for c in p)
+        if w != 0:
+            return (x / w, y / w, self.one)
+        n = self.ctx.sqrt(x * x + y * y)
         if n == 0:
             raise ValueError(f"not a point: {p!r}")
-        key = p[2] if p[2] != 0 else (p[0] if p[0] != 0 else p[1])
-        if key < 0:
+        if (x if x != 0 else y) < 0:
             n = -n
-        return (p[0] / n, p[1] / n, p[2] / n)
+        return (x / n, y / n, self.zero)
 
     def normalize_line(self, l, *, scale=1.0, origin=(0.0, 0.0)):
         l = tuple(self.num(c) for c in l)

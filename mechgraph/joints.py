@@ -103,6 +103,23 @@ def _along_row(r, n) -> list:
     return [m, nx, ny, -m, -nx, -ny]
 
 
+def _same_pose(pa, pb) -> bool:
+    return pa[0] == pb[0] and pa[1] == pb[1] and pa[2] == pb[2]
+
+
+def _contact_at(joint, pose_a, pose_b, ar):
+    """The contact point of a rolling or sliding contact: only where the two links keep their drawn relative pose.
+
+    Elsewhere the contact moves along the profiles, which are not modelled.
+    """
+    if not _same_pose(pose_a, pose_b):
+        raise ModelError(
+            f"{joint.label()}: at link poses other than the drawn one the contact point moves along the profiles, "
+            "which mechgraph does not model; analyse the drawn position (or draw the new one)"
+        )
+    return ar.place(joint.at, pose_a)
+
+
 def _unit(v: Vec, what: str) -> Vec:
     n = math.hypot(v[0], v[1])
     if not (n > 0.0) or not math.isfinite(n):
@@ -295,8 +312,11 @@ class _PointOnLine(Joint):
     def _normal(self, pose_b, ar=FLOAT):  # pragma: no cover - interface
         raise NotImplementedError
 
+    def _point(self, pose_a, pose_b, ar):
+        return ar.place(self.at, pose_a)
+
     def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
-        c = ar.place(self.at, pose_a)
+        c = self._point(pose_a, pose_b, ar)
         nx, ny = self._normal(pose_b, ar)
         line = pg.join((c[0], c[1], ar.one), (nx, ny, ar.zero))
         return Primary(None, line, self._locus_note())
@@ -305,7 +325,7 @@ class _PointOnLine(Joint):
         raise NotImplementedError
 
     def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
-        return [_along_row(ar.place(self.at, pose_a), self._normal(pose_b, ar))]
+        return [_along_row(self._point(pose_a, pose_b, ar), self._normal(pose_b, ar))]
 
 
 @dataclass(frozen=True)
@@ -365,6 +385,9 @@ class CamContact(_PointOnLine):
     def _normal(self, pose_b, ar=FLOAT):
         return _direction(ar, self._given_normal, self.normal_deg, pose_b[2])
 
+    def _point(self, pose_a, pose_b, ar):
+        return _contact_at(self, pose_a, pose_b, ar)
+
     def _locus_note(self) -> str:
         return f"common normal of cam contact '{self.name}'"
 
@@ -382,11 +405,11 @@ class RollingContact(Joint):
         return (self.at,)
 
     def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
-        x, y = ar.place(self.at, pose_a)
+        x, y = _contact_at(self, pose_a, pose_b, ar)
         return Primary((x, y, ar.one), None, f"contact point of rolling contact '{self.name}'")
 
     def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
-        return _point_rows(ar.place(self.at, pose_a))
+        return _point_rows(_contact_at(self, pose_a, pose_b, ar))
 
 
 @dataclass(frozen=True)
@@ -454,10 +477,31 @@ class GearMesh(Joint):
     def exact_inputs(self):
         return tuple(self.radii) if self.radii is not None else ()
 
-    def _pitch(self, pose_a, ar):
-        # from the radii in the arithmetic's own numbers (exact, or to full precision)
-        base = self._pitch_from_radii(ar) if self.radii is not None and ar.name != "float" else self.pitch_point
-        return ar.place(base, pose_a)
+    def _share(self, ar):
+        """Where the pitch point divides the line of centres: P = C_a + t (C_b - C_a), t in the arithmetic.
+
+        From the radii, ``t = r1 / (r1 + r2)`` (external) or ``r1 / (r1 - r2)``
+        (internal); from a pitch point, its projection on the line of centres.
+        No square root either way.
+        """
+        if self.radii is not None:
+            ra, rb = (ar.num(r) for r in self.radii)
+            return ra / (ra - rb) if self.internal_pair else ra / (ra + rb)
+        (ax, ay), (bx, by) = ((ar.num(c[0]), ar.num(c[1])) for c in self.centers)
+        px, py = ar.num(self.pitch_point[0]), ar.num(self.pitch_point[1])
+        dx, dy = bx - ax, by - ay
+        return ((px - ax) * dx + (py - ay) * dy) / (dx * dx + dy * dy)
+
+    def _centres(self, pose_a, pose_b, ar):
+        return ar.place(self.centers[0], pose_a), ar.place(self.centers[1], pose_b)
+
+    def _pitch(self, pose_a, pose_b, ar):
+        # the pitch point stays on the line of centres, where the radii put it
+        if ar.name == "float" and _same_pose(pose_a, pose_b) and pose_a[2] == 0:
+            return ar.place(self.pitch_point, pose_a)  # the drawn point itself, without round-off
+        a, b = self._centres(pose_a, pose_b, ar)
+        t = self._share(ar)
+        return (a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1]))
 
     @property
     def internal(self) -> bool:
@@ -473,25 +517,24 @@ class GearMesh(Joint):
         px, py = self.pitch_point
         return (math.hypot(px - ax, py - ay), math.hypot(px - bx, py - by))
 
-    def _tangent(self, pose_a, ar):
-        a = ar.place(self.centers[0], pose_a)
-        b = ar.place(self.centers[1], pose_a)
+    def _tangent(self, pose_a, pose_b, ar):
+        a, b = self._centres(pose_a, pose_b, ar)
         # normal to the line of centres: the common tangent direction
         dx, dy = b[0] - a[0], b[1] - a[1]
         return (-dy, dx)
 
     def primary(self, pose_a, pose_b, ar=FLOAT) -> Primary:
-        p = self._pitch(pose_a, ar)
+        p = self._pitch(pose_a, pose_b, ar)
         if self.carrier is not None:
             return Primary(
                 (p[0], p[1], ar.one), None, f"pitch point of gear mesh '{self.name}' (centres held by '{self.carrier}')"
             )
-        tx, ty = self._tangent(pose_a, ar)
+        tx, ty = self._tangent(pose_a, pose_b, ar)
         return Primary(None, pg.join((p[0], p[1], ar.one), (tx, ty, ar.zero)), f"common tangent of gear mesh '{self.name}'")
 
     def twist_rows(self, pose_a, pose_b, ar=FLOAT) -> list:
         # t . (v_a(p) - v_b(p)) = 0 puts the center on the line through p along t.
-        return [_along_row(self._pitch(pose_a, ar), self._tangent(pose_a, ar))]
+        return [_along_row(self._pitch(pose_a, pose_b, ar), self._tangent(pose_a, pose_b, ar))]
 
 
 #: Every joint kind by its case-file name.

@@ -19,7 +19,7 @@ import numpy as np
 from .errors import MechgraphError, ModelError
 from .model import Mechanism
 
-__all__ = ["input_coordinates", "assemble", "AssemblyError"]
+__all__ = ["input_coordinates", "assemble", "AssemblyError", "check_assembled"]
 
 
 class AssemblyError(MechgraphError):
@@ -29,6 +29,48 @@ class AssemblyError(MechgraphError):
         self.residual = residual
         self.iterations = iterations
         super().__init__(message)
+
+
+def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:
+    """Raise unless every joint with a position model holds at link poses ``poses``.
+
+    Parameters
+    ----------
+    mech : Mechanism
+    poses : array_like, shape (n_links, 3)
+    tol : float, default 1e-9
+        Largest residual accepted, relative to the drawing size (angles in radians).
+
+    Raises
+    ------
+    ModelError
+        The poses have the wrong shape, or a joint does not hold (its residual
+        is named), or a contact joint's links left their drawn relative pose.
+
+    Examples
+    --------
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> m = demo_mechanism()
+    >>> check_assembled(m, m.reference_poses())
+    """
+    poses = np.asarray(poses, dtype=float)
+    if poses.shape != (mech.n_links, 3):
+        raise ModelError(f"poses must have shape ({mech.n_links}, 3), one (x, y, theta) per link; got {poses.shape}")
+    if not np.all(np.isfinite(poses)):
+        raise ModelError("poses must be finite numbers")
+    for j in mech.joints:
+        a, b = (mech.index[x] for x in j.links)
+        try:
+            r = np.atleast_1d(j.residual(poses[a], poses[b]))
+        except ModelError:
+            j.twist_rows(poses[a], poses[b])  # contacts: raises unless the links keep their drawn relative pose
+            continue
+        worst = float(np.max(np.abs(r))) if r.size else 0.0
+        if worst > tol * mech.scale:
+            raise ModelError(
+                f"{j.label()} does not hold at the given link poses (residual {worst:.3g}); "
+                "the poses must describe an assembled position (see mechgraph.position.assemble)"
+            )
 
 
 def _driver_value(mech: Mechanism, joint, pa, pb) -> float:

@@ -171,14 +171,14 @@ def to_cartesian(p: Sequence, *, scale: float = 1.0, tol: float = 1e-12):
 
 
 def normalized_point(p: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[float, float, float]:
-    """Canonical representative of a float point, sized at a drawing scale.
+    """Canonical representative of a float point.
 
-    Returns the same projective point, divided so that
-    ``((x - ox w)/scale, (y - oy w)/scale, w)`` is a unit vector, and signed
-    so that its first non-zero coordinate of ``(w, x, y)`` is positive.  Points
-    that are the same projective point give the same triple, whether finite
-    or at infinity, and the coordinates stay of drawing size however far the
-    point lies.
+    A finite point becomes ``(x/w, y/w, 1)``, so its Cartesian coordinates are
+    read off exactly; a point at infinity (``w == 0``, or so far that ``x/w``
+    overflows) becomes its unit direction ``(dx, dy, 0)`` with the first
+    non-zero coordinate positive.  Points that are the same projective point
+    give the same triple.  ``scale`` and ``origin`` are accepted for symmetry
+    with the other measures and do not change the result.
 
     Raises
     ------
@@ -187,18 +187,24 @@ def normalized_point(p: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> t
 
     Examples
     --------
-    >>> normalized_point((20.0, 0.0, 2.0), scale=10.0)
-    (7.071067811865475, 0.0, 0.7071067811865475)
+    >>> normalized_point((20.0, 0.0, 2.0))
+    (10.0, 0.0, 1.0)
+    >>> normalized_point((0.0, -3.0, 0.0))
+    (0.0, 1.0, 0.0)
     """
     x, y, w = float(p[0]), float(p[1]), float(p[2])
-    u = _sized_at((x, y, w), scale, origin)
-    n = math.sqrt(dot(u, u))
-    if n == 0.0 or not math.isfinite(n):
+    if not (math.isfinite(x) and math.isfinite(y) and math.isfinite(w)):
         raise ValueError(f"not a point: {tuple(p)!r}")
-    key = w if w != 0.0 else (x if x != 0.0 else y)
-    if key < 0.0:
+    if w != 0.0:
+        cx, cy = x / w, y / w
+        if math.isfinite(cx) and math.isfinite(cy):
+            return (cx + 0.0, cy + 0.0, 1.0)
+    n = math.hypot(x, y)
+    if n == 0.0:
+        raise ValueError(f"not a point: {tuple(p)!r}")
+    if (x if x != 0.0 else y) < 0.0:
         n = -n
-    return (x / n, y / n, w / n)
+    return (x / n + 0.0, y / n + 0.0, 0.0)
 
 
 def normalized_line(l: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[float, float, float]:

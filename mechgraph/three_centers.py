@@ -41,6 +41,10 @@ __all__ = [
 ]
 
 
+#: Derivations of centers that are pins by construction (joints, and compound pins).
+PINNED = ("joint", "coincident")
+
+
 def pair_index(i: int, j: int, n: int) -> int:
     """Index of the unordered link pair (i, j) among the n(n-1)/2 pairs, in row order.
 
@@ -93,9 +97,9 @@ class Derivation:
     ``method`` is ``"joint"`` (a primary center: ``joint`` and ``note`` say
     which and why), ``"three-centers"`` (``loci`` holds the two lines that
     meet there, ``crossing`` their separation, 1 for well apart, near 0 for
-    nearly coincident), or ``"coincident"`` (two centers of a link triple
-    coincide, so the third is the same point: ``loci`` is empty and ``through``
-    names the two pairs).
+    nearly coincident), or ``"coincident"`` (two primary centers of a link
+    triple coincide, a compound pin, so the third is the same point: ``loci``
+    is empty and ``through`` names the two pairs).
     """
 
     method: str
@@ -208,7 +212,7 @@ def solve_three_centers(
     >>> r.n_located
     6
     >>> [round(c, 9) + 0.0 for c in r.point(0, 2)]
-    [0.0, 2.0, 0.0]
+    [0.0, 1.0, 0.0]
 
     Notes
     -----
@@ -216,9 +220,11 @@ def solve_three_centers(
     third link that closes a triple with one known and one unknown center
     (found by set intersection), so the cost is at most O(n^3) for n links,
     and much less where most triples close early; memory O(n^2).  Lines
-    through two coincident centers carry no direction; instead, when two
-    centers of a link triple coincide the third is the same point (the
-    relative poles add: P_jk = P_ji + P_ik).
+    through two coincident centers carry no direction.  When two *primary*
+    centers of a link triple coincide (a compound pin) the third is the same
+    point (the relative poles add: P_jk = P_ji + P_ik); an accidental
+    coincidence of a secondary center with another center gives nothing, as
+    the third pair may then be at relative rest, its center undefined.
 
     References
     ----------
@@ -287,9 +293,11 @@ def solve_three_centers(
             locate(i, j, p, Derivation("three-centers", loci=(best, loc), crossing=best_s))
 
     ox, oy = ar.num(origin[0]), ar.num(origin[1])
+    given: dict[int, tuple] = {}  # primary centers as given, reported without round-off
     for i, j, p, joint, note in point_seeds:
         check(i, j)
         if points[pid[i][j]] is None:
+            given[pid[i][j]] = norm(p, scale=scale, origin=origin)
             locate(i, j, pg.translate_point(p, -ox, -oy), Derivation("joint", joint=joint, note=note))
     for i, j, line, joint, note in line_seeds:
         check(i, j)
@@ -309,13 +317,20 @@ def solve_three_centers(
                 target = (other, k) if other < k else (k, other)
                 kp = (shared, k) if shared < k else (k, shared)
                 if same_point(pij, known_pt, scale=scale):
-                    locate(target[0], target[1], pij, Derivation("coincident", through=((i, j), kp)))
+                    # Two coinciding centers give no line.  Where both are joints
+                    # (a compound pin: several links pinned at one point), the
+                    # third center is that point too; an accidental coincidence
+                    # says nothing (the third pair may be at relative rest).
+                    if derivs[pid[i][j]].method in PINNED and derivs[pid[shared][k]].method in PINNED:
+                        locate(target[0], target[1], pij, Derivation("coincident", through=((i, j), kp)))
                     continue
                 add_locus(target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared))
 
     # back from coordinates about the drawing centre to the caller's
-    def back_point(p):
-        return None if p is None else norm(pg.translate_point(p, ox, oy), scale=scale, origin=origin)
+    def back_point(q, p):
+        if p is None:
+            return None
+        return given[q] if q in given else norm(pg.translate_point(p, ox, oy), scale=scale, origin=origin)
 
     def back_locus(loc: Locus) -> Locus:
         return replace(loc, line=pg.translate_line(loc.line, ox, oy))
@@ -327,7 +342,7 @@ def solve_three_centers(
 
     return ThreeCentersResult(
         n_links=n,
-        points=tuple(back_point(p) for p in points),
+        points=tuple(back_point(q, p) for q, p in enumerate(points)),
         derivations=tuple(back_derivation(d) for d in derivs),
         loci=tuple(tuple(back_locus(x) for x in ls) for ls in loci),
         order=tuple(order),
