@@ -125,9 +125,13 @@ class _Reader:
         return v
 
 
-def _toml_line(err: tomllib.TOMLDecodeError) -> int | None:
+def _toml_line(err: tomllib.TOMLDecodeError, text: str) -> int | None:
     m = re.search(r"line (\d+)", str(err))
-    return int(m.group(1)) if m else None
+    if m:
+        return int(m.group(1))
+    if "end of document" in str(err):
+        return max(1, len(text.splitlines()))
+    return None
 
 
 def parse_case(text: str, path: str = "<case>") -> Mechanism:
@@ -174,7 +178,7 @@ def parse_case(text: str, path: str = "<case>") -> Mechanism:
     try:
         doc = tomllib.loads(text, parse_float=TypedFloat)
     except tomllib.TOMLDecodeError as e:
-        raise CaseFileError(f"not valid TOML: {e}", path=path, line=_toml_line(e)) from None
+        raise CaseFileError(f"not valid TOML: {e}", path=path, line=_toml_line(e, text)) from None
     r.keys(doc, _TOP_KEYS, "top level")
     mech = doc.get("mechanism", {})
     if not isinstance(mech, dict):

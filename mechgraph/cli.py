@@ -45,7 +45,7 @@ def _parser() -> argparse.ArgumentParser:
 
     def outputs(sp, formats):
         sp.add_argument("-f", "--format", choices=formats, default=formats[0], help=f"output format (default {formats[0]})")
-        sp.add_argument("-o", "--output", metavar="FILE", help="write to FILE (whole or not at all) instead of standard output")
+        sp.add_argument("-o", "--output", metavar="FILE", help="write to FILE (whole or not at all) instead of standard output ('-' is standard output)")
 
     def tolerances(sp):
         sp.add_argument("--tol", type=float, default=1e-9, help="coincidence tolerance of the three-centers solver, relative to the drawing size (default 1e-9)")
@@ -82,7 +82,7 @@ def _parser() -> argparse.ArgumentParser:
 
 
 def _emit(text: str, output: str | None, inputs) -> None:
-    if output:
+    if output and output != "-":
         from .report import write_output
 
         write_output(output, text, inputs=inputs)

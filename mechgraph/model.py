@@ -48,6 +48,16 @@ LENGTH_UNITS = ("mm", "cm", "m", "in", "ft")
 #: spans a million kilometres in any unit).
 MAX_COORDINATE = 1e9
 
+#: Smallest accepted drawing size relative to the largest coordinate: below it,
+#: double precision keeps fewer than about eight digits of the drawing's own
+#: geometry (2.2e-16 / 1e-8), too few for the 1e-6 cross-check after the
+#: constructions' own error growth.
+MIN_RELATIVE_SIZE = 1e-8
+
+#: Smallest accepted drawing size in any unit: squares of smaller lengths
+#: underflow double precision.
+MIN_ABSOLUTE_SIZE = 1e-150
+
 
 @dataclass(frozen=True)
 class Link:
@@ -216,6 +226,15 @@ class Mechanism:
                 raise ModelError(f"{joint.kind} joint '{joint.name}' joins link '{a}' to itself; a joint needs two different links")
             for p in joint.reference_points():
                 _check_coordinate(p, f"{joint.label()}: coordinate", self.max_coordinate)
+        far = float(np.abs(self.reference_points).max()) if self.reference_points.size else 0.0
+        raw = self._raw_size()
+        if 0.0 < raw and (raw < MIN_RELATIVE_SIZE * far or raw < MIN_ABSOLUTE_SIZE):
+            raise ModelError(
+                f"the drawing is {self._raw_size():.3g} {self.unit} across but lies {far:.3g} {self.unit} from the origin: "
+                "floating point keeps too few digits of its geometry; move the origin near the mechanism, or change the unit"
+                if raw >= MIN_ABSOLUTE_SIZE
+                else f"the drawing is {raw:.3g} {self.unit} across, too small for double precision; change the unit"
+            )
         tol = self.coincidence_tol * self.scale
         by_pair: dict[frozenset, list[Joint]] = {}
         for joint in self.joints:
@@ -233,6 +252,13 @@ class Mechanism:
                     raise ModelError(
                         f"joints '{j1.name}' and '{j2.name}' are the same {j1.kind} joint between "
                         f"'{j1.links[0]}' and '{j1.links[1]}' at the same place; remove one"
+                    )
+                if not j1.locates_point and not j2.locates_point and _same_locus(j1, j2, self.scale, self.coincidence_tol):
+                    a, b = sorted(pair)
+                    raise ModelError(
+                        f"joints '{j1.name}' ({j1.kind}) and '{j2.name}' ({j2.kind}) between '{a}' and '{b}' say the same "
+                        "thing: their common normals are one line, so together they constrain no more than one of them; "
+                        "remove one, or correct a contact point or normal"
                     )
         for joint in self.joints:
             if isinstance(joint, GearMesh):
@@ -365,6 +391,10 @@ class Mechanism:
         d = float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0))))
         return d if d > 0.0 else 1.0
 
+    def _raw_size(self) -> float:
+        pts = np.asarray([p for j in self.joints for p in j.reference_points()], dtype=float).reshape(-1, 2)
+        return float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0)))) if len(pts) else 0.0
+
     @cached_property
     def centre(self) -> tuple[float, float]:
         """Centre of the joints' bounding box."""
@@ -383,6 +413,17 @@ class Mechanism:
     def with_drivers(self, drivers) -> "Mechanism":
         """The same mechanism with other drivers."""
         return replace(self, drivers=tuple(drivers))
+
+
+def _same_locus(j1: Joint, j2: Joint, scale: float, tol: float) -> bool:
+    """True when two one-constraint contacts put their pair's center on the same line."""
+    from . import projective as pg
+
+    zero = (0.0, 0.0, 0.0)
+    l1, l2 = j1.primary(zero, zero).line, j2.primary(zero, zero).line
+    if l1 is None or l2 is None:
+        return False
+    return pg.line_separation(l1, l2, scale=scale) <= tol
 
 
 def _same_geometry(j1: Joint, j2: Joint, tol: float) -> bool:

@@ -374,7 +374,7 @@ def write_output(path, text: str, *, inputs=()) -> None:
     Parameters
     ----------
     path : str or Path
-        Destination.
+        Destination.  A symbolic link is followed (its target is written).
     text : str
     inputs : iterable of path, optional
         Files the report was made from; writing onto any of them is refused.
@@ -385,30 +385,48 @@ def write_output(path, text: str, *, inputs=()) -> None:
         The destination is an input file, its folder does not exist, or the
         write fails (the destination is then left as it was).
 
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> d = pathlib.Path(tempfile.mkdtemp())
+    >>> write_output(d / "r.txt", "hello\\n")
+    >>> (d / "r.txt").read_text()
+    'hello\\n'
+
     Notes
     -----
     The text goes to a temporary file in the destination's folder, which is
-    then renamed over the destination in one step.
+    then renamed over the destination in one step.  A file replaced keeps its
+    permission bits; a new file gets the usual ones (0666 less the umask).
     """
-    dest = Path(path)
+    dest = Path(os.path.realpath(path))
     for src in inputs:
         try:
             same = dest.exists() and os.path.samefile(dest, src)
         except OSError:
             same = False
-        if same or dest.resolve() == Path(src).resolve():
-            raise OutputError(f"{dest}: refusing to write the report over the input file; choose another output path")
-    folder = dest.parent if str(dest.parent) else Path(".")
+        if same or dest == Path(os.path.realpath(src)):
+            raise OutputError(f"{path}: refusing to write the report over the input file; choose another output path")
+    folder = dest.parent
     if not folder.is_dir():
-        raise OutputError(f"{dest}: the folder {folder} does not exist")
+        raise OutputError(f"{path}: the folder {folder} does not exist")
+    if dest.exists() and not dest.is_file():
+        raise OutputError(f"{path}: exists and is not a regular file")
+    if dest.exists():
+        mode = dest.stat().st_mode & 0o7777
+    else:
+        umask = os.umask(0)
+        os.umask(umask)
+        mode = 0o666 & ~umask
     fd, tmp = tempfile.mkstemp(prefix=f".{dest.name}.", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
+        os.chmod(tmp, mode)
         os.replace(tmp, dest)
     except OSError as e:
         try:
             os.unlink(tmp)
         except OSError:
             pass
-        raise OutputError(f"{dest}: cannot be written: {e}") from None
+        raise OutputError(f"{path}: cannot be written: {e}") from None

@@ -372,17 +372,34 @@ def analyse_velocities(
     mobility = ncols - rank
     gm = gruebler_mobility(mech)
     drivers = mech.drivers
-    if len(drivers) != mobility:
-        _driver_count_error(mech, mobility, gm, len(drivers))
+    if drivers and all(d.rate == 0 for d in drivers):
+        raise DriverError(
+            f"mechanism '{mech.name}': every driver rate is zero, so nothing moves and no velocity pole is defined; "
+            "give a non-zero rate (the three-centers results need none)"
+        )
     rowsD = []
     for d in drivers:
         j = mech.joint_by_name[d.joint]
         a, b = (mech.index[x] for x in j.links)
         rowsD += _scatter([j.driver_row(frame[a], frame[b], ar)], a, b, col, ncols, L, ar)
+    if len(drivers) != mobility:
+        if mobility > gm >= len(drivers) >= 1:
+            # as many drivers as the count asks, but the position leaves more freedom: a change point
+            M = ar.matrix(rowsA + rowsD, ncols)
+            null = [float(ar.to_float(x)) for x in ar.null_vector(M)]
+            _singular_error(mech, np.array(null), col, drivers, extra=mobility - gm, gruebler=gm)
+        _driver_count_error(mech, mobility, gm, len(drivers))
     M = ar.matrix(rowsA + rowsD, ncols)
-    if ar.rank(M, rank_tol) < ncols:
+    full = ar.rank(M, rank_tol)
+    if full < ncols:
         null = [float(ar.to_float(x)) for x in ar.null_vector(M)]
-        _singular_error(mech, np.array(null), col, drivers)
+        # drivers whose rows add nothing to the others: locked, or driving a freedom another driver already drives
+        dependent = []
+        for k, d in enumerate(drivers):
+            others = rowsA + rowsD[:k] + rowsD[k + 1 :]
+            if ar.rank(ar.matrix(others, ncols), rank_tol) == full:
+                dependent.append(d.joint)
+        _singular_error(mech, np.array(null), col, drivers, dependent=dependent)
     nd = len(drivers)
     rhs = [[ar.zero] * nd for _ in rowsA] + [[ar.one if c == k else ar.zero for c in range(nd)] for k in range(nd)]
     sol = ar.solve(M, ar.matrix(rhs, nd)) if nd else []
@@ -445,19 +462,44 @@ def _driver_count_error(mech: Mechanism, mobility: int, gm: int, nd: int):
     )
 
 
-def _singular_error(mech: Mechanism, null: np.ndarray, col, drivers):
+#: A link belongs to a singular motion when its share of the null vector exceeds
+#: this fraction of the largest share (a plain threshold on a unit vector).
+SINGULAR_SHARE = 1e-6
+
+
+def _singular_error(mech: Mechanism, null: np.ndarray, col, drivers, *, dependent=(), extra=0, gruebler=None):
     size = np.zeros(mech.n_links)
     for i, c in enumerate(col):
         if c is not None:
             size[i] = np.linalg.norm(null[c : c + 3])
-    moving = tuple(mech.link_names[i] for i in np.flatnonzero(size > 1e-6 * max(size.max(), 1e-300)))
+    moving = tuple(mech.link_names[i] for i in np.flatnonzero(size > SINGULAR_SHARE * max(size.max(), 1e-300)))
     joints = tuple(j.name for j in mech.joints if set(j.links) & set(moving))
     held = ", ".join(f"'{d.joint}'" for d in drivers) or "(none)"
+    links = ", ".join(repr(x) for x in moving)
+    still = (
+        f"with the driver(s) on {held} held still, link(s) {links} can still move, through joint(s) "
+        f"{', '.join(repr(x) for x in joints)}"
+    )
+    if extra:
+        why = (
+            f"at this position the joints leave {extra} more freedom than the Gruebler-Kutzbach count ({gruebler}): "
+            f"a change point (links folded into line, or parallel and equal); {still}. Analyse a position away from it"
+        )
+    elif len(dependent) == 1 and len(drivers) == 1:
+        why = (
+            f"the driver on '{dependent[0]}' cannot move the mechanism at this position: its joint is locked by the "
+            f"rest of the linkage here (a dead point); {still}. Drive another joint, or analyse a position away from this one"
+        )
+    elif dependent:
+        names = " and ".join(f"'{x}'" for x in dependent)
+        why = (
+            f"the drivers on {names} are not independent at this position: together they set a freedom one of them "
+            f"already sets (over-driven), or one is locked; {still}. Move one of these drivers to a joint of {links}"
+        )
+    else:
+        why = f"the velocity equations are singular at this position (a dead point or change point): {still}"
     raise SingularPositionError(
-        f"mechanism '{mech.name}': the velocity equations are singular at this position (a dead point or change "
-        f"point): with the driver(s) on {held} held still, link(s) {', '.join(repr(x) for x in moving)} can still "
-        f"move, through joint(s) {', '.join(repr(x) for x in joints)}. Drive another joint, or analyse a position "
-        "away from this one",
+        f"mechanism '{mech.name}': {why}",
         moving_links=moving,
         joints=joints,
     )

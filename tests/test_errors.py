@@ -189,7 +189,11 @@ def test_dead_point_is_reported_with_links_and_joints():
     t = 1.5
     ax, ay = 100.0 + t * 20.0, 0.0 + t * 70.0
     m = parse_case(case(ax=ax, ay=ay), "dead.toml")
-    with pytest.raises(SingularPositionError, match=r"singular at this position .*driver\(s\) on 'O2' held still, link\(s\) 'coupler', 'rocker' can still move") as e:
+    with pytest.raises(
+        SingularPositionError,
+        match=r"the driver on 'O2' cannot move the mechanism at this position: its joint is locked by the rest of the "
+        r"linkage here \(a dead point\); with the driver\(s\) on 'O2' held still, link\(s\) 'coupler', 'rocker' can still move",
+    ) as e:
         analyse(m)
     assert set(e.value.moving_links) == {"coupler", "rocker"}
     assert "B" in e.value.joints
@@ -213,3 +217,33 @@ def test_model_api_errors_without_a_file():
         Mechanism(links=links, joints=(Revolute("O", ("frame", "crank"), at=(0.0, 0.0)),), drivers=(Driver("O", math.nan),))
     with pytest.raises(ModelError, match=r"unit 'furlong' is not known; use one of mm, cm, m, in, ft"):
         Mechanism(links=links, joints=(Revolute("O", ("frame", "crank"), at=(0.0, 0.0)),), unit="furlong")
+
+
+def test_change_point_is_a_singular_position_not_a_driver_count():
+    # Every pin on one line: the folded four-bar's change point (common practice, no source).
+    m = parse_case(case(ax=40.0, ay=0.0).replace("at = [120.0, 70.0]", "at = [140.0, 0.0]"), "change.toml")
+    with pytest.raises(SingularPositionError, match=r"leave 1 more freedom than the Gruebler-Kutzbach count \(1\): a change point"):
+        analyse(m)
+
+
+def test_over_driven_loop_names_both_drivers():
+    extra = '[[link]]\nname = "free"\n[[joint]]\nname = "F"\nkind = "revolute"\nlinks = ["frame", "free"]\nat = [50.0, -50.0]\n'
+    text = case(extra) + '[[driver]]\njoint = "O4"\nrad_per_s = 2\n'
+    with pytest.raises(SingularPositionError, match=r"the drivers on 'O2' and 'O4' are not independent .* Move one of these drivers to a joint of 'free'"):
+        analyse(parse_case(text, "over.toml"))
+
+
+def test_all_rates_zero():
+    m = parse_case(case().replace("rad_per_s = 10", "rad_per_s = 0"), "zero.toml")
+    with pytest.raises(DriverError, match=r"every driver rate is zero, so nothing moves"):
+        analyse(m)
+
+
+def test_two_contacts_on_one_normal_say_the_same_thing():
+    extra = (
+        '[[link]]\nname = "follower"\n'
+        '[[joint]]\nname = "k1"\nkind = "cam"\nlinks = ["rocker", "follower"]\nat = [110.0, 30.0]\nnormal_deg = 90\n'
+        '[[joint]]\nname = "k2"\nkind = "cam"\nlinks = ["rocker", "follower"]\nat = [110.0, 60.0]\nnormal_deg = 90\n'
+    )
+    with pytest.raises(CaseFileError, match=r"joints 'k1' \(cam\) and 'k2' \(cam\) between 'follower' and 'rocker' say the same thing"):
+        parse_case(case(extra), "n.toml")
