@@ -36,8 +36,9 @@ class Center:
         Unit homogeneous point (at the drawing scale), or None where neither
         method defines it.
     method : str
-        ``"joint"``, ``"three-centers"``, ``"coincident"``, ``"velocity"`` or
-        ``"unresolved"``.
+        ``"joint"``, ``"three-centers"``, ``"coincident"``, ``"relaxation"``
+        (an indeterminate chain's center, located geometrically by the
+        relaxation method), ``"velocity"`` or ``"unresolved"``.
     derivation : str
         How it was found, in words an engineer can redraw.
     velocity_point : tuple or None
@@ -123,6 +124,8 @@ class Analysis:
     crosscheck : CrossCheck
     arithmetic : str
         ``"float"``, ``"exact"`` or ``"precision"``.
+    relaxation : RelaxationResult or None
+        Where the relaxation method ran (indeterminate chains): its result.
     """
 
     mechanism: Mechanism
@@ -131,6 +134,7 @@ class Analysis:
     three_centers: ThreeCentersResult
     crosscheck: CrossCheck
     arithmetic: str = "float"
+    relaxation: object = None
 
     def center(self, a: str, b: str) -> Center:
         """The center of the two named links.
@@ -276,6 +280,7 @@ def analyse(
     rank_tol: float = 1e-9,
     rest_tol: float = 1e-9,
     velocities: bool = True,
+    geometric: bool = True,
     arithmetic=None,
     digits: int = 50,
 ) -> Analysis:
@@ -300,6 +305,11 @@ def analyse(
     velocities : bool, default True
         Run the velocity analysis.  Without it (``False``) only the centers
         the theorem reaches are given and nothing is cross-checked.
+    geometric : bool, default True
+        For a single-freedom linkage the theorem leaves incomplete (an
+        indeterminate chain), locate the rest geometrically by the relaxation
+        method (:mod:`mechgraph.indeterminate`), floating point only; the
+        velocity analysis then cross-checks them.
     arithmetic : {None, "float", "exact", "precision"} or arithmetic object, optional
         Number kind of the whole analysis (:mod:`mechgraph.arithmetic`);
         floating point by default.  Exact and high precision work at the
@@ -356,6 +366,7 @@ def analyse(
     else:
         agree_eff = agree_tol
     tc = locate_centers(mech, poses, tol=tol, arithmetic=ar)
+    relax = _relaxation(mech, poses, tol) if geometric and is_float and tc.unresolved else None
     vel = analyse_velocities(mech, poses, rank_tol=rank_tol, rest_tol=rest_tol, arithmetic=kind) if velocities else None
     L, O = mech.scale, mech.centre
     n = mech.n_links
@@ -378,6 +389,11 @@ def analyse(
     for q, (i, j) in enumerate(all_pairs):
         geo = tc.points[q]
         d = tc.derivations[q]
+        relaxed_text = None
+        if geo is None and relax is not None and relax.points[q] is not None:
+            # not reached by the theorem from the joints: found by the relaxation method
+            geo, d = relax.points[q], relax.three_centers.derivations[q]
+            relaxed_text = relax.derivations[q]
         vp, rest = None, False
         if vel is not None:
             if is_float:
@@ -390,7 +406,10 @@ def analyse(
                     vp = kind.normalize_point(vel.kind_pole(i, j), scale=L, origin=O)
         check = None
         if geo is not None:
-            point, method, text = geo, d.method, describe_derivation(mech, d)
+            if relaxed_text is not None:
+                point, method, text = geo, "relaxation", relaxed_text
+            else:
+                point, method, text = geo, d.method, describe_derivation(mech, d)
             if vp is not None:
                 check = compare_centers(as_float(geo), as_float(vp), scale=L, origin=O, tol=agree_eff)
                 if not is_float:
@@ -439,7 +458,7 @@ def analyse(
                 relative_rest=rest,
                 check=check,
                 loci=tc.loci[q] if geo is None else (),
-                crossing=d.crossing if d is not None else 1.0,
+                crossing=d.crossing if (d is not None and relaxed_text is None) else 1.0,
                 ratio_line=ratio_lines.get(q),
                 kind_point=None if is_float else point,
                 arithmetic=None if is_float else kind,
@@ -466,8 +485,26 @@ def analyse(
         worst_locus_pair=worst_locus_pair,
     )
     return Analysis(
-        mechanism=mech, centers=tuple(centers), velocity=vel, three_centers=tc, crosscheck=cc, arithmetic=kind.name
+        mechanism=mech,
+        centers=tuple(centers),
+        velocity=vel,
+        three_centers=tc,
+        crosscheck=cc,
+        arithmetic=kind.name,
+        relaxation=relax,
     )
+
+
+def _relaxation(mech: Mechanism, poses, tol: float):
+    """The relaxation method's result for a single-freedom linkage the theorem leaves incomplete, else None."""
+    from .indeterminate import RelaxationError, counted_freedoms, locate_by_relaxation
+
+    try:
+        if counted_freedoms(mech) != 1:
+            return None
+        return locate_by_relaxation(mech, poses, tol=tol)
+    except RelaxationError:
+        return None
 
 
 def _kind_collinearity(ar, pts, n: int, L, O):

@@ -42,6 +42,10 @@ __all__ = [
 
 Triple = tuple  # (x, y, w) of any number type
 
+#: Points farther than this many units from the origin are kept in unit form
+#: rather than as (x, y, 1): their squared coordinates would overflow doubles.
+FAR_POINT = 1e100
+
 
 def point(x, y) -> Triple:
     """Homogeneous form of the finite point ``(x, y)``.
@@ -174,9 +178,9 @@ def normalized_point(p: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> t
     """Canonical representative of a float point.
 
     A finite point becomes ``(x/w, y/w, 1)``, so its Cartesian coordinates are
-    read off exactly; a point at infinity (``w == 0``, or so far that ``x/w``
-    overflows) becomes its unit direction ``(dx, dy, 0)`` with the first
-    non-zero coordinate positive.  Points that are the same projective point
+    read off exactly; a point at infinity (``w == 0``), or one farther than
+    :data:`FAR_POINT` units, becomes the unit vector ``(x, y, w) / |(x, y, w)|``
+    with its first non-zero coordinate of ``(w, x, y)`` positive.  Points that are the same projective point
     give the same triple.  ``scale`` and ``origin`` are accepted for symmetry
     with the other measures and do not change the result.
 
@@ -195,16 +199,15 @@ def normalized_point(p: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> t
     x, y, w = float(p[0]), float(p[1]), float(p[2])
     if not (math.isfinite(x) and math.isfinite(y) and math.isfinite(w)):
         raise ValueError(f"not a point: {tuple(p)!r}")
-    if w != 0.0:
-        cx, cy = x / w, y / w
-        if math.isfinite(cx) and math.isfinite(cy):
-            return (cx + 0.0, cy + 0.0, 1.0)
-    n = math.hypot(x, y)
+    if w != 0.0 and max(abs(x), abs(y)) <= FAR_POINT * abs(w):
+        return (x / w + 0.0, y / w + 0.0, 1.0)
+    # at, or numerically at, infinity: the unit representative keeps the (tiny) w
+    n = math.sqrt(x * x + y * y + w * w)
     if n == 0.0:
         raise ValueError(f"not a point: {tuple(p)!r}")
-    if (x if x != 0.0 else y) < 0.0:
+    if (w if w != 0.0 else (x if x != 0.0 else y)) < 0.0:
         n = -n
-    return (x / n + 0.0, y / n + 0.0, 0.0)
+    return (x / n + 0.0, y / n + 0.0, w / n + 0.0)
 
 
 def normalized_line(l: Sequence, *, scale: float = 1.0, origin=(0.0, 0.0)) -> tuple[float, float, float]:
