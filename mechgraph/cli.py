@@ -5,10 +5,13 @@ Commands::
     mechgraph demo                       the bundled six-bar, full report
     mechgraph centers CASE [-f FORMAT] [-o FILE]
     mechgraph topology CASE [-f FORMAT] [-o FILE]
+    mechgraph handcheck CASE [HANDFILE] [-f FORMAT] [-o FILE]
+    mechgraph validate [--cases DIR] [-o FILE]
 
-Exit codes: 0 success; 1 the cross-check failed; 2 bad input (case file,
-model, drivers, command line); 3 singular position (dead point, change point);
-4 an output file cannot be written.  Errors are printed as one message on
+Exit codes: 0 success; 1 a check failed (the cross-check, a hand calculation
+that does not hold, or the verification suite); 2 bad input (case file, hand
+file, model, drivers, command line); 3 singular position (dead point, change
+point); 4 an output file cannot be written.  Errors are printed as one message on
 standard error, without a traceback.
 """
 
@@ -29,7 +32,8 @@ EXIT_SINGULAR = 3
 EXIT_OUTPUT = 4
 
 _EPILOG = (
-    "exit codes: 0 success, 1 cross-check failed, 2 bad input, 3 singular position (dead point), "
+    "exit codes: 0 success, 1 a check failed (cross-check, hand calculation, verification suite), 2 bad input, "
+    "3 singular position (dead point), "
     "4 output cannot be written. Kinematic results only; strength, guarding and safety follow local codes "
     "and licensed engineering practice."
 )
@@ -78,6 +82,17 @@ def _parser() -> argparse.ArgumentParser:
     t = sub.add_parser("topology", help="graph, mobility, loops, link types and chain class of a case file", epilog=_EPILOG)
     t.add_argument("case", help="case file (TOML)")
     outputs(t, ["table", "json"])
+    h = sub.add_parser(
+        "handcheck",
+        help="check a hand or graphical calculation item by item and point out the first faulty step",
+        epilog=_EPILOG,
+    )
+    h.add_argument("case", help="case file (TOML)")
+    h.add_argument("hand", nargs="?", help="hand file (TOML or CSV); default CASE with .hand.toml or .hand.csv")
+    outputs(h, ["table", "json"])
+    v = sub.add_parser("validate", help="run the verification suite against outside references and across methods", epilog=_EPILOG)
+    v.add_argument("--cases", metavar="DIR", help="folder of case files to cross-check (default: the project's cases/)")
+    outputs(v, ["table"])
     return p
 
 
@@ -108,6 +123,10 @@ def _run(args) -> int:
     from .topology import summarise_topology
 
     _check_tolerances(args)
+    if args.command == "validate":
+        return _validate(args)
+    if args.command == "handcheck":
+        return _handcheck(args)
     if args.command == "demo":
         path = demo_case_path()
         mech = parse_case(path.read_text(encoding="utf-8"), "demo:label_applicator.toml")
@@ -151,6 +170,36 @@ def _run(args) -> int:
         )
         return EXIT_CHECK_FAILED
     return EXIT_OK
+
+
+def _handcheck(args) -> int:
+    from .analysis import analyse
+    from .casefile import load_case
+    from .handcheck import check_hand, find_hand_file, read_hand_file, render_dict, render_text
+
+    mech = load_case(args.case)
+    hand_path = args.hand or find_hand_file(args.case)
+    if hand_path is None:
+        raise _UsageError(f"{args.case}: no hand file given and none found beside it (CASE.hand.toml or CASE.hand.csv)")
+    hand = read_hand_file(hand_path, mech)
+    report = check_hand(analyse(mech), hand)
+    text = json.dumps(render_dict(report), indent=2) + "\n" if args.format == "json" else render_text(report)
+    _emit(text, args.output, (args.case, str(hand_path)))
+    return EXIT_OK if report.holds else EXIT_CHECK_FAILED
+
+
+def _validate(args) -> int:
+    try:
+        from validation.suite import render_table, run_suite
+    except ImportError:  # pragma: no cover - installed without the validation package
+        raise _UsageError("the validation package is not installed beside mechgraph") from None
+    from pathlib import Path
+
+    if args.cases is not None and not Path(args.cases).is_dir():
+        raise _UsageError(f"--cases {args.cases}: no such folder")
+    rows = run_suite(args.cases)
+    _emit(render_table(rows), args.output, ())
+    return EXIT_OK if all(r.passed for r in rows) else EXIT_CHECK_FAILED
 
 
 def main(argv=None) -> int:

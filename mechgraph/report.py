@@ -63,13 +63,12 @@ def _center_dict(c: Center, a: Analysis) -> dict:
             "angle_deg": c.check.angle_deg,
             "passed": c.check.passed,
         }
+    out["text"] = None
     if c.kind_point is not None:
         xy_text = c.exact_text()
         out["text"] = {"x": xy_text[0], "y": xy_text[1]} if xy_text else {"direction": list(c.exact_direction_text())}
-    if c.loci:
-        out["known_lines"] = [list(loc.line) for loc in c.loci]
-    if c.ratio_line is not None:
-        out["ratio_line"] = list(c.ratio_line)
+    out["known_lines"] = [list(loc.line) for loc in c.loci]
+    out["ratio_line"] = list(c.ratio_line) if c.ratio_line is not None else None
     return out
 
 

@@ -135,3 +135,50 @@ def test_cli_does_not_import_heavy_modules():
     code = "import sys, mechgraph.cli; print(any(m.startswith(('sympy', 'matplotlib', 'scipy')) for m in sys.modules))"
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
     assert r.stdout.strip() == "False"
+
+
+def _readme_blocks():
+    import re
+    from pathlib import Path
+
+    text = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    return re.findall(r"```toml\n(.*?)```", text, re.S)
+
+
+def test_handcheck_command_holds_and_fails(tmp_path, capsys):
+    case, hand = _readme_blocks()
+    (tmp_path / "press.toml").write_text(case)
+    (tmp_path / "press.hand.toml").write_text(hand)
+    assert main(["handcheck", str(tmp_path / "press.toml")]) == EXIT_OK  # finds press.hand.toml beside the case
+    assert "The hand calculation holds" in capsys.readouterr().out
+    (tmp_path / "press.hand.toml").write_text(hand.replace("at = [139.6, 185.3]", "at = [150.0, 185.3]"))
+    assert main(["handcheck", str(tmp_path / "press.toml"), "-f", "json"]) == EXIT_CHECK_FAILED
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["holds"] is False
+
+
+def test_handcheck_without_hand_file(tmp_path, capsys):
+    case, _ = _readme_blocks()
+    (tmp_path / "press.toml").write_text(case)
+    assert main(["handcheck", str(tmp_path / "press.toml")]) == EXIT_INPUT
+    assert "no hand file given and none found beside it" in capsys.readouterr().err
+
+
+def test_output_dash_is_stdout(demo_file, capsys):
+    assert main(["centers", str(demo_file), "-o", "-"]) == EXIT_OK
+    assert "Cross-check PASSED" in capsys.readouterr().out
+
+
+def test_replaced_output_keeps_its_permissions(demo_file, tmp_path):
+    import os
+    import stat
+
+    out = tmp_path / "r.txt"
+    out.write_text("old")
+    os.chmod(out, 0o644)
+    assert main(["centers", str(demo_file), "-o", str(out)]) == EXIT_OK
+    assert stat.S_IMODE(out.stat().st_mode) == 0o644
+    link = tmp_path / "link.txt"
+    link.symlink_to(out)
+    assert main(["centers", str(demo_file), "-f", "csv", "-o", str(link)]) == EXIT_OK
+    assert link.is_symlink() and out.read_text().startswith("link_a")

@@ -20,9 +20,19 @@ def _blocks(lang: str) -> list[str]:
 
 
 def test_readme_case_file_is_valid_and_solves():
-    (toml,) = _blocks("toml")
+    toml = _blocks("toml")[0]
     m = parse_case(toml, "README.md")
     assert m.name == "bench press" and m.n_links == 6
+
+
+def test_readme_hand_file_holds():
+    from mechgraph.analysis import analyse
+    from mechgraph.handcheck import check_hand, parse_hand_text
+
+    case, hand = _blocks("toml")
+    m = parse_case(case, "README.md")
+    report = check_hand(analyse(m), parse_hand_text(hand, m, "press.hand.toml"))
+    assert report.holds
 
 
 def _commands() -> list[list[str]]:
@@ -43,9 +53,12 @@ def test_readme_names_install_and_test_commands():
 
 @pytest.mark.parametrize("args", _commands(), ids=lambda a: " ".join(a))
 def test_readme_command_runs(args, tmp_path, monkeypatch, capsys):
-    (toml,) = _blocks("toml")
+    toml, hand = _blocks("toml")
     (tmp_path / "press.toml").write_text(toml, encoding="utf-8")
+    (tmp_path / "press.hand.toml").write_text(hand, encoding="utf-8")
     monkeypatch.chdir(tmp_path)
+    if args[0] == "validate":
+        pytest.skip("the verification suite runs in tests/test_validation.py")
     assert main(args) == EXIT_OK
     if "-o" in args:
         assert (tmp_path / args[args.index("-o") + 1]).stat().st_size > 0
