@@ -124,8 +124,9 @@ class ThreeCentersResult:
     derivations : tuple
         Per pair: its :class:`Derivation`, or ``None`` when not located.
     loci : tuple
-        Per pair: every locus line collected before it was located (for an
-        unresolved pair, the lines it is known to lie on).
+        Per pair: for an unresolved pair, every locus line collected (the
+        lines it is known to lie on); for a located pair, the lines that
+        located it.
     order : tuple of int
         Pair indices in the order they were located.
     """
@@ -332,18 +333,27 @@ def solve_three_centers(
             return None
         return given[q] if q in given else norm(pg.translate_point(p, ox, oy), scale=scale, origin=origin)
 
+    moved: dict[int, Locus] = {}
+
     def back_locus(loc: Locus) -> Locus:
-        return replace(loc, line=pg.translate_line(loc.line, ox, oy))
+        got = moved.get(id(loc))
+        if got is None:
+            got = Locus(pg.translate_line(loc.line, ox, oy), loc.through, loc.via, loc.joint, loc.note)
+            moved[id(loc)] = got
+        return got
 
     def back_derivation(d):
         if d is None or not d.loci:
             return d
-        return replace(d, loci=tuple(back_locus(x) for x in d.loci))
+        return Derivation(d.method, d.joint, d.note, tuple(back_locus(x) for x in d.loci), d.crossing, d.through)
 
     return ThreeCentersResult(
         n_links=n,
         points=tuple(back_point(q, p) for q, p in enumerate(points)),
         derivations=tuple(back_derivation(d) for d in derivs),
-        loci=tuple(tuple(back_locus(x) for x in ls) for ls in loci),
+        loci=tuple(
+            tuple(back_locus(x) for x in ls) if points[q] is None else tuple(back_locus(x) for x in derivs[q].loci)
+            for q, ls in enumerate(loci)
+        ),
         order=tuple(order),
     )

@@ -86,3 +86,38 @@ def _timed(f, *args):
     t0 = time.perf_counter()
     f(*args)
     return time.perf_counter() - t0
+
+
+def test_demo_exact_arithmetic(benchmark, demo):
+    result = benchmark(analyse, demo, arithmetic="exact")
+    assert result.passed and result.crosscheck.max_separation == 0.0
+
+
+def test_demo_fifty_digits(benchmark, demo):
+    result = benchmark(analyse, demo, arithmetic="precision", digits=50)
+    assert result.passed
+
+
+@pytest.mark.parametrize("stem", ["eightbar_double_butterfly_stage_lift", "eightbar_single_flier_dough_folder"])
+def test_indeterminate_eight_bar_geometric(benchmark, stem):
+    from pathlib import Path
+
+    from mechgraph.casefile import load_case
+
+    m = load_case(Path(__file__).resolve().parents[2] / "cases" / f"{stem}.toml")
+    result = benchmark(analyse, m)
+    assert result.passed and not [c for c in result.centers if c.method == "velocity"]
+
+
+def test_uncertainty_of_the_demo(benchmark, demo):
+    from mechgraph.conditioning import assess
+
+    result = benchmark.pedantic(assess, args=(demo,), rounds=1 if benchmark.disabled else 5, iterations=1)
+    assert len(result.centers) == 15
+
+
+def test_full_verification_suite(benchmark):
+    from validation.suite import run_suite
+
+    rows = benchmark.pedantic(run_suite, rounds=1, iterations=1)
+    assert all(r.passed for r in rows)
