@@ -147,7 +147,11 @@ def _run(args) -> int:
     a = analyse(
         mech, tol=args.tol, agree_tol=args.agree_tol, rank_tol=args.rank_tol, arithmetic=args.arithmetic, digits=args.digits
     )
-    trust = None
+    trust = recheck = None
+    if args.arithmetic == "float" and a.velocity is not None:
+        from .conditioning import recheck_near_dead_point
+
+        recheck = recheck_near_dead_point(mech, a)  # automatic: only near a dead point
     if args.uncertainty is not None:
         from .conditioning import assess
 
@@ -156,11 +160,11 @@ def _run(args) -> int:
         base = a if args.arithmetic == "float" else None
         trust = assess(mech, base, input_tol=None if args.uncertainty == -1.0 else args.uncertainty)
     if args.format == "json":
-        text = to_json(a, topo, trust)
+        text = to_json(a, topo, trust, recheck)
     elif args.format == "csv":
         text = to_csv(a)
     else:
-        text = to_table(a, topo, trust)
+        text = to_table(a, topo, trust, recheck)
     _emit(text, args.output, inputs)
     if not a.passed:
         print(

@@ -42,6 +42,9 @@ __all__ = [
     "move_point",
     "assess",
     "velocity_condition",
+    "PrecisionRecheck",
+    "sound_digits",
+    "recheck_near_dead_point",
 ]
 
 #: Default input tolerance, as a share of the drawing size: 0.5 mm on a drawing on
@@ -307,19 +310,7 @@ def assess(
     digits: list[float | None] = [None] * npairs
     vdigits: dict[str, float] = {}
     if recheck and velocities:
-        precise = analyse(mech, arithmetic="precision", digits=precision_digits)
-        for q, (cf, cp) in enumerate(zip(base.centers, precise.centers)):
-            if cf.point is None or cp.point is None:
-                continue
-            digits[q] = _digits(pg.point_separation(cf.point, cp.point, scale=L, origin=mech.centre))
-        ar = precise.velocity.arithmetic
-        wmax = max((abs(ar.to_float(t[0])) for t in precise.velocity.kind_twists), default=0.0)
-        for i, name in enumerate(mech.link_names):
-            if i == mech.ground_index or wmax == 0.0:
-                continue
-            exact_w = precise.velocity.kind_twists[i][0]
-            err = abs(ar.to_float(ar.num(float(base.velocity.twists[i, 0])) - exact_w)) / wmax
-            vdigits[name] = _digits(err)
+        digits, vdigits = sound_digits(mech, base, digits=precision_digits)
     out = []
     for q, c in enumerate(base.centers):
         row = np.asarray(jac[q], dtype=float)
@@ -351,6 +342,111 @@ def assess(
         rechecked_in_precision=recheck and velocities,
         centers=tuple(out),
         velocity_digits=vdigits,
+    )
+
+
+@dataclass(frozen=True)
+class PrecisionRecheck:
+    """The float results compared with a high-precision recomputation (made near a dead point).
+
+    Attributes
+    ----------
+    velocity_condition : float
+        Reciprocal condition number that triggered it.
+    digits : int
+        Working digits of the recomputation.
+    center_digits : dict
+        Pair -> decimal digits the float center shares with it.
+    velocity_digits : dict
+        Link -> decimal digits the float angular velocity shares with it.
+    """
+
+    velocity_condition: float
+    digits: int
+    center_digits: dict
+    velocity_digits: dict
+
+
+def sound_digits(mech: Mechanism, base: Analysis, *, digits: int = 50):
+    """Digits of each float center and angular velocity that a high-precision recomputation confirms.
+
+    Parameters
+    ----------
+    mech : Mechanism
+    base : Analysis
+        The floating-point analysis.
+    digits : int, default 50
+        Working digits of the recomputation.
+
+    Returns
+    -------
+    center_digits : list of float or None
+        Per pair (None where a center is undefined).
+    velocity_digits : dict
+        Link name -> digits, relative to the largest angular velocity.
+
+    Notes
+    -----
+    One analysis in ``digits``-digit arithmetic (:mod:`mechgraph.arithmetic`).
+    """
+    L = mech.scale
+    precise = analyse(mech, arithmetic="precision", digits=digits)
+    cdig: list[float | None] = [None] * len(base.centers)
+    for q, (cf, cp) in enumerate(zip(base.centers, precise.centers)):
+        if cf.point is not None and cp.point is not None:
+            cdig[q] = _digits(pg.point_separation(cf.point, cp.point, scale=L, origin=mech.centre))
+    vdig: dict[str, float] = {}
+    ar = precise.velocity.arithmetic
+    wmax = max((abs(ar.to_float(t[0])) for t in precise.velocity.kind_twists), default=0.0)
+    for i, name in enumerate(mech.link_names):
+        if i == mech.ground_index or wmax == 0.0:
+            continue
+        err = abs(ar.to_float(ar.num(float(base.velocity.twists[i, 0])) - precise.velocity.kind_twists[i][0])) / wmax
+        vdig[name] = _digits(err)
+    return cdig, vdig
+
+
+def recheck_near_dead_point(
+    mech: Mechanism, base: Analysis, *, min_condition: float = 1e-6, digits: int = 50
+) -> PrecisionRecheck | None:
+    """Recompute in high precision when the velocity system is near-singular; None when it is not.
+
+    Parameters
+    ----------
+    mech : Mechanism
+    base : Analysis
+        The floating-point analysis (with velocities).
+    min_condition : float, default 1e-6
+        Reciprocal condition number below which the position counts as near a dead point.
+    digits : int, default 50
+
+    Returns
+    -------
+    PrecisionRecheck or None
+
+    Examples
+    --------
+    >>> from mechgraph.analysis import analyse
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> m = demo_mechanism()
+    >>> recheck_near_dead_point(m, analyse(m)) is None     # well away from any dead point
+    True
+
+    Notes
+    -----
+    One SVD for the condition number; one high-precision analysis when it trips.
+    """
+    if base.velocity is None or not mech.drivers:
+        return None
+    cond = velocity_condition(mech)
+    if cond >= min_condition:
+        return None
+    cdig, vdig = sound_digits(mech, base, digits=digits)
+    return PrecisionRecheck(
+        velocity_condition=cond,
+        digits=digits,
+        center_digits={c.pair: d for c, d in zip(base.centers, cdig) if d is not None},
+        velocity_digits=vdig,
     )
 
 

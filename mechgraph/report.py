@@ -178,7 +178,34 @@ def trust_table(cond, unit: str) -> str:
     return "\n".join(out) + "\n"
 
 
-def to_dict(a: Analysis, topology: Topology | None = None, trust=None) -> dict:
+def recheck_dict(r) -> dict | None:
+    """The automatic high-precision recheck near a dead point as plain data (JSON ``precision_recheck``)."""
+    if r is None:
+        return None
+    return {
+        "velocity_condition": r.velocity_condition,
+        "digits": r.digits,
+        "center_digits": dict(r.center_digits),
+        "velocity_digits": dict(r.velocity_digits),
+    }
+
+
+def recheck_table(r) -> str:
+    """The recheck in words: how many digits of the float results are sound."""
+    cmin = min(r.center_digits.items(), key=lambda kv: kv[1]) if r.center_digits else None
+    vmin = min(r.velocity_digits.items(), key=lambda kv: kv[1]) if r.velocity_digits else None
+    out = [
+        f"Near a dead point: the velocity system's reciprocal condition is {_f(r.velocity_condition, 3)}, "
+        f"so the results were recomputed with {r.digits} digits:"
+    ]
+    if cmin:
+        out.append(f"  centers keep at least {cmin[1]:.0f} sound digits (least: {cmin[0]})")
+    if vmin:
+        out.append(f"  angular velocities keep at least {vmin[1]:.0f} sound digits (least: '{vmin[0]}')")
+    return "\n".join(out) + "\n"
+
+
+def to_dict(a: Analysis, topology: Topology | None = None, trust=None, recheck=None) -> dict:
     """The whole analysis as plain data (the JSON report before encoding)."""
     m = a.mechanism
     cc = a.crosscheck
@@ -204,10 +231,11 @@ def to_dict(a: Analysis, topology: Topology | None = None, trust=None) -> dict:
             "worst_locus_pair": [names[i] for i in cc.worst_locus_pair] if cc.worst_locus_pair else None,
         },
         "trust": trust_dict(trust) if trust is not None else None,
+        "precision_recheck": recheck_dict(recheck),
     }
 
 
-def to_json(a: Analysis, topology: Topology | None = None, trust=None) -> str:
+def to_json(a: Analysis, topology: Topology | None = None, trust=None, recheck=None) -> str:
     """JSON report (see README.md for the fields).
 
     Examples
@@ -219,7 +247,7 @@ def to_json(a: Analysis, topology: Topology | None = None, trust=None) -> str:
     >>> doc["schema"], len(doc["centers"]), doc["crosscheck"]["passed"]
     ('mechgraph.centers/1', 15, True)
     """
-    return json.dumps(to_dict(a, topology, trust), indent=2) + "\n"
+    return json.dumps(to_dict(a, topology, trust, recheck), indent=2) + "\n"
 
 
 CSV_FIELDS = ["link_a", "link_b", "x", "y", "at_infinity", "dir_x", "dir_y", "method", "separation", "relative_rest", "derivation"]
@@ -300,7 +328,7 @@ def topology_table(t: Topology, mech_name: str = "") -> str:
     return "\n".join(lines) + "\n"
 
 
-def to_table(a: Analysis, topology: Topology | None = None, trust=None) -> str:
+def to_table(a: Analysis, topology: Topology | None = None, trust=None, recheck=None) -> str:
     """A readable report: every center with method, derivation and check; velocities; the cross-check."""
     m = a.mechanism
     u = m.unit
@@ -362,6 +390,8 @@ def to_table(a: Analysis, topology: Topology | None = None, trust=None) -> str:
     if unreached:
         out.append(f"  {len(unreached)} center(s) not reachable by the three-centers theorem: {', '.join(c.pair for c in unreached)}")
     out.append("")
+    if recheck is not None:
+        out.append(recheck_table(recheck))
     if trust is not None:
         out.append(trust_table(trust, u))
     return "\n".join(out)

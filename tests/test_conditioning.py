@@ -99,3 +99,36 @@ def test_cli_uncertainty_table_and_json(capsys):
     assert doc["trust"]["input_tol_is_default"] is True and len(doc["trust"]["centers"]) == 15
     assert main(["demo", "--uncertainty", "0"]) == EXIT_INPUT
     assert "--uncertainty must be a positive length" in capsys.readouterr().err
+
+
+def test_cli_rechecks_automatically_near_a_dead_point(tmp_path, capsys):
+    import json
+
+    from mechgraph.cli import EXIT_OK, main
+
+    o4, a = (100.0, 0.0), (20.0, 35.0)
+    b = (o4[0] + 0.5 * (a[0] - o4[0]) + 1e-5, o4[1] + 0.5 * (a[1] - o4[1]))
+    text = "\n".join(
+        ['[[link]]\nname = "frame"\nground = true']
+        + [f'[[link]]\nname = "{n}"' for n in ("crank", "coupler", "rocker")]
+        + [
+            f'[[joint]]\nkind = "revolute"\nlinks = ["{p}", "{q}"]\nat = [{x!r}, {y!r}]'
+            for (p, q), (x, y) in zip(
+                [("frame", "crank"), ("crank", "coupler"), ("coupler", "rocker"), ("frame", "rocker")],
+                [(0.0, 0.0), a, b, o4],
+            )
+        ]
+        + ['[[driver]]\njoint = "frame-crank"\nrad_per_s = 1']
+    )
+    case = tmp_path / "near.toml"
+    case.write_text(text)
+    assert main(["centers", str(case)]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert "Near a dead point" in out and "sound digits" in out
+    assert main(["centers", str(case), "-f", "json"]) == EXIT_OK
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["precision_recheck"]["velocity_condition"] < 1e-6
+    assert min(doc["precision_recheck"]["velocity_digits"].values()) < 14
+    # away from dead points no recheck is made
+    assert main(["demo", "-f", "json"]) == EXIT_OK
+    assert json.loads(capsys.readouterr().out)["precision_recheck"] is None
