@@ -73,14 +73,20 @@ class _Reader:
         self.path = path
 
     def fail(self, where: str, msg: str):
+        """Raise a CaseFileError naming the file and ``where``."""
         raise CaseFileError(f"{where}: {msg}", path=self.path)
 
     def keys(self, table: dict, allowed: set, where: str):
+        """Fail on any field of ``table`` not in ``allowed``, listing the valid ones."""
         extra = sorted(set(table) - allowed)
         if extra:
-            self.fail(where, f"unknown field(s) {', '.join(repr(e) for e in extra)}; valid fields are: {', '.join(sorted(allowed))}")
+            self.fail(
+                where,
+                f"unknown field(s) {', '.join(repr(e) for e in extra)}; valid fields are: {', '.join(sorted(allowed))}",
+            )
 
     def string(self, table: dict, key: str, where: str, default: Any = ...):
+        """A non-empty text field, stripped; ``default`` when absent (required if no default)."""
         if key not in table:
             if default is ...:
                 self.fail(where, f"field '{key}' is missing (a text value)")
@@ -91,6 +97,7 @@ class _Reader:
         return v.strip()
 
     def number(self, v, where: str, key: str) -> float:
+        """A finite number (not a boolean), keeping its typed decimal text when it has one."""
         if isinstance(v, bool) or not isinstance(v, (int, float)):
             self.fail(where, f"field '{key}' must be a number, got {v!r}")
         if not math.isfinite(v):
@@ -98,6 +105,7 @@ class _Reader:
         return v if isinstance(v, TypedFloat) else float(v)
 
     def pair(self, table: dict, key: str, where: str):
+        """A field holding two numbers ``[x, y]``."""
         v = table.get(key)
         if not isinstance(v, list) or len(v) != 2:
             self.fail(where, f"field '{key}' must be a point [x, y] of two numbers, got {v!r}")
@@ -117,6 +125,7 @@ class _Reader:
         return {vec_key: d}
 
     def entries(self, doc: dict, key: str) -> list[dict]:
+        """The ``[[key]]`` array of tables (empty when absent)."""
         v = doc.get(key, [])
         if isinstance(v, dict):
             self.fail(key, f"write each {key} as an array entry [[{key}]], not as a single table [{key}]")
@@ -126,6 +135,7 @@ class _Reader:
 
 
 def _toml_line(err: tomllib.TOMLDecodeError, text: str) -> int | None:
+    """The line number of a TOML error (the last line for an error at the end), or None."""
     m = re.search(r"line (\d+)", str(err))
     if m:
         return int(m.group(1))
@@ -173,6 +183,18 @@ def parse_case(text: str, path: str = "<case>") -> Mechanism:
     ... ''')
     >>> m.joints[0].name, round(m.drivers[0].rate, 6)
     ('frame-crank', 6.283185)
+
+    Notes
+    -----
+    One pass over the TOML tables (Python's :mod:`tomllib`, floats kept with
+    their typed text for exact arithmetic), then the checks of
+    :class:`~mechgraph.model.Mechanism`: linear in the size of the file, plus
+    the model's pairwise joint checks.
+
+    References
+    ----------
+    TOML v1.0.0 specification, https://toml.io/en/v1.0.0 (the file syntax);
+    the case schema is mechgraph's own.
     """
     r = _Reader(path)
     try:
@@ -212,7 +234,9 @@ def parse_case(text: str, path: str = "<case>") -> Mechanism:
         r.keys(e, _POINT_KEYS, where)
         points.append(PointOfInterest(r.string(e, "name", where), r.string(e, "link", where), r.pair(e, "at", where)))
     try:
-        return Mechanism(links=tuple(links), joints=tuple(joints), drivers=tuple(drivers), points=tuple(points), name=name, unit=unit)
+        return Mechanism(
+            links=tuple(links), joints=tuple(joints), drivers=tuple(drivers), points=tuple(points), name=name, unit=unit
+        )
     except CaseFileError:
         raise
     except MechgraphError as e:
@@ -220,6 +244,7 @@ def parse_case(text: str, path: str = "<case>") -> Mechanism:
 
 
 def _joint(r: _Reader, e: dict, k: int):
+    """The joint of ``[[joint]]`` entry ``k`` (0-based)."""
     where = f"joint[{k + 1}]"
     if "name" in e:
         where += f" '{e['name']}'"
@@ -251,6 +276,7 @@ def _joint(r: _Reader, e: dict, k: int):
 
 
 def _gear(r: _Reader, e: dict, where: str, name: str, links):
+    """A gear mesh from its entry: centres, and a pitch point or radii."""
     c = e.get("centers")
     if not isinstance(c, list) or len(c) != 2:
         r.fail(where, "field 'centers' must hold the two gear centres [[x1, y1], [x2, y2]]")
@@ -274,13 +300,17 @@ def _gear(r: _Reader, e: dict, where: str, name: str, links):
 
 
 def _driver(r: _Reader, e: dict, k: int, joints):
+    """The driver of ``[[driver]]`` entry ``k`` (0-based), its rate in rad/s or unit/s."""
     where = f"driver[{k + 1}]"
     r.keys(e, _DRIVER_KEYS, where)
     jname = r.string(e, "joint", where)
     where += f" on '{jname}'"
     given = [key for key in list(_RATE_KEYS) + ["speed"] if key in e]
     if len(given) != 1:
-        r.fail(where, "give exactly one rate: rpm, rad_per_s or deg_per_s for a revolute; speed (length unit/s) for a prismatic")
+        r.fail(
+            where,
+            "give exactly one rate: rpm, rad_per_s or deg_per_s for a revolute; speed (length unit/s) for a prismatic",
+        )
     key = given[0]
     value = r.number(e[key], where, key)
     joint = next((j for j in joints if j.name == jname), None)
@@ -298,15 +328,35 @@ def load_case(path) -> Mechanism:
     Parameters
     ----------
     path : str or Path
+        The case file (UTF-8 TOML in the schema of :func:`parse_case`).
 
     Returns
     -------
     Mechanism
+        The validated mechanism; its name defaults to the file's stem.
 
     Raises
     ------
     CaseFileError
         The file cannot be read or does not describe a valid mechanism.
+
+    Examples
+    --------
+    >>> load_case(demo_case_path()).name
+    'label applicator'
+    >>> load_case("no/such/case.toml")
+    Traceback (most recent call last):
+        ...
+    mechgraph.errors.CaseFileError: no/such/case.toml: no such file
+
+    Notes
+    -----
+    Reads the whole file and hands it to :func:`parse_case`: linear in its size.
+
+    References
+    ----------
+    TOML v1.0.0 specification, https://toml.io/en/v1.0.0; the case schema is
+    mechgraph's own.
     """
     p = Path(path)
     try:
@@ -319,17 +369,51 @@ def load_case(path) -> Mechanism:
 
 
 def demo_case_path():
-    """Path of the bundled demo case (a six-bar label applicator)."""
+    """Path of the bundled demo case (a six-bar label applicator).
+
+    Returns
+    -------
+    importlib.resources.abc.Traversable
+        The file :data:`DEMO_CASE` in the package's ``data`` directory (a
+        :class:`pathlib.Path` for an ordinary installation).
+
+    Examples
+    --------
+    >>> demo_case_path().name
+    'label_applicator.toml'
+
+    Notes
+    -----
+    :func:`importlib.resources.files`, O(1); nothing is read.
+
+    References
+    ----------
+    Common practice, no single source.
+    """
     return resources.files("mechgraph") / "data" / DEMO_CASE
 
 
 def demo_mechanism() -> Mechanism:
     """The bundled demo: a Stephenson six-bar that swings a label pad (invented numbers).
 
+    Returns
+    -------
+    Mechanism
+        Six links, seven revolutes, one driver.
+
     Examples
     --------
     >>> demo_mechanism().n_links
     6
+
+    Notes
+    -----
+    Parses :func:`demo_case_path` with :func:`parse_case` on every call.
+
+    References
+    ----------
+    Invented numbers for a demonstration; the Stephenson six-bar chain:
+    common practice, no single source.
     """
     p = demo_case_path()
     return parse_case(p.read_text(encoding="utf-8"), DEMO_CASE)

@@ -23,7 +23,34 @@ __all__ = ["input_coordinates", "assemble", "AssemblyError", "check_assembled"]
 
 
 class AssemblyError(MechgraphError):
-    """Newton's method did not assemble the mechanism (the input is out of reach, or a branch point)."""
+    """Newton's method did not assemble the mechanism (the input is out of reach, or a branch point).
+
+    Parameters
+    ----------
+    message : str
+        What failed, naming the mechanism and the inputs.
+    residual : float
+        Largest residual after the last step, in drawing units.
+    iterations : int
+        Newton steps taken.
+
+    Examples
+    --------
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> try:
+    ...     assemble(demo_mechanism(), [3.0])    # 3 rad of crank in one Newton run: too far
+    ... except AssemblyError as e:
+    ...     e.iterations, e.residual > 1.0
+    (50, True)
+
+    Notes
+    -----
+    Carries the data of the failure, like any convergence error.
+
+    References
+    ----------
+    Common practice, no single source.
+    """
 
     def __init__(self, message: str, *, residual: float, iterations: int):
         self.residual = residual
@@ -37,9 +64,13 @@ def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:
     Parameters
     ----------
     mech : Mechanism
+        The mechanism.
     poses : array_like, shape (n_links, 3)
+        Link poses ``(x, y, theta)``.
     tol : float, default 1e-9
-        Largest residual accepted, relative to the drawing size (angles in radians).
+        Largest residual accepted, as a fraction of the drawing size: every
+        residual, the angular ones (radians) included, is compared with
+        ``tol * mech.scale``.
 
     Raises
     ------
@@ -52,6 +83,16 @@ def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:
     >>> from mechgraph.casefile import demo_mechanism
     >>> m = demo_mechanism()
     >>> check_assembled(m, m.reference_poses())
+
+    Notes
+    -----
+    One residual per joint, O(j) for j joints.  Contact kinds without a
+    position model (cam, rolling, gear) are checked only for keeping their
+    drawn relative pose.
+
+    References
+    ----------
+    Common practice, no single source.
     """
     poses = np.asarray(poses, dtype=float)
     if poses.shape != (mech.n_links, 3):
@@ -74,6 +115,7 @@ def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:
 
 
 def _driver_value(mech: Mechanism, joint, pa, pb) -> float:
+    """Input coordinate of a driven joint: relative rotation (rad) or sliding displacement (length)."""
     if joint.drive == "rotation":
         return float(pb[2] - pa[2])
     # sliding: displacement of the slider's reference point along the guide axis
@@ -92,12 +134,32 @@ def input_coordinates(mech: Mechanism, poses) -> np.ndarray:
     zero in the case's position); a prismatic's is the slider's displacement
     along the axis (length units).
 
+    Parameters
+    ----------
+    mech : Mechanism
+        The mechanism, with its drivers.
+    poses : array_like, shape (n_links, 3)
+        Link poses ``(x, y, theta)``.
+
+    Returns
+    -------
+    ndarray, shape (n_drivers,)
+        One input value per driver, in the order of ``mech.drivers``.
+
     Examples
     --------
     >>> from mechgraph.casefile import demo_mechanism
     >>> m = demo_mechanism()
     >>> input_coordinates(m, m.reference_poses())
     array([0.])
+
+    Notes
+    -----
+    O(1) per driver.
+
+    References
+    ----------
+    Common practice, no single source.
     """
     poses = np.asarray(poses, dtype=float)
     out = []
@@ -120,6 +182,7 @@ def _pose_jacobian(rows: np.ndarray, pose) -> np.ndarray:
 
 
 def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
+    """Residuals, Jacobian over the moving links' pose columns, and those columns' indices."""
     g = mech.ground_index
     res, jac = [], []
     n = mech.n_links
@@ -159,24 +222,29 @@ def assemble(
     Parameters
     ----------
     mech : Mechanism
+        The mechanism, with its drivers.
     inputs : sequence of float
         Target input coordinate of each driver (see :func:`input_coordinates`).
     start : ndarray, shape (n_links, 3), optional
         Starting poses; the case's own position by default.  Newton's method
         keeps to the assembly branch of the start when the step is small.
     tol : float, default 1e-12
-        Converged when every residual is below ``tol`` times the drawing size
-        (angles below ``tol`` radians).
+        Converged when every residual is at most ``tol`` times the drawing
+        size; the angular residuals (radians) are compared with the same
+        ``tol * scale``.
     max_iterations : int, default 50
+        Newton steps before giving up.
 
     Returns
     -------
     ndarray, shape (n_links, 3)
+        Link poses ``(x, y, theta)``; ground stays at its start pose.
 
     Raises
     ------
     ModelError
-        A joint kind has no position model (cam, rolling contact, gear mesh).
+        A joint kind has no position model (cam, rolling contact, gear mesh),
+        or the number of inputs differs from the number of drivers.
     AssemblyError
         No convergence: the input may be beyond the mechanism's reach.
 
@@ -193,6 +261,12 @@ def assemble(
     -----
     Gauss-Newton with least squares on the (constraints + drivers) x 3(n-1)
     system; each iteration costs one dense solve, O(n^3).
+
+    References
+    ----------
+    Newton's method on the loop-closure equations: common practice, no single
+    source.  The Jacobian rows are the joints' velocity rows
+    (:meth:`mechgraph.joints.Joint.twist_rows`).
     """
     poses = mech.reference_poses() if start is None else np.array(start, dtype=float, copy=True)
     targets = np.asarray(inputs, dtype=float).reshape(-1)
@@ -210,8 +284,9 @@ def assemble(
         flat[keep] += step
         poses = flat.reshape(-1, 3)
     raise AssemblyError(
-        f"mechanism '{mech.name}' did not assemble at inputs {[float(t) for t in targets]} after {max_iterations} Newton steps "
-        f"(largest residual {norm:.3g}); the input may be out of reach, or the start too far from it",
+        f"mechanism '{mech.name}' did not assemble at inputs {[float(t) for t in targets]} "
+        f"after {max_iterations} Newton steps (largest residual {norm:.3g}); "
+        "the input may be out of reach, or the start too far from it",
         residual=norm,
         iterations=max_iterations,
     )

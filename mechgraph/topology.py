@@ -41,12 +41,32 @@ DEGREE_NAMES = {1: "unary", 2: "binary", 3: "ternary", 4: "quaternary", 5: "pent
 def link_graph(mech: Mechanism) -> nx.MultiGraph:
     """The mechanism as a multigraph: links are nodes, joints are edges (keyed by joint name).
 
+    Parameters
+    ----------
+    mech : Mechanism
+        The mechanism.
+
+    Returns
+    -------
+    networkx.MultiGraph
+        Nodes carry ``ground`` (bool); edges carry ``kind`` and ``freedoms``
+        of their joint.  Two joints between one pair are two parallel edges.
+
     Examples
     --------
     >>> from mechgraph.casefile import demo_mechanism
     >>> g = link_graph(demo_mechanism())
     >>> g.number_of_nodes(), g.number_of_edges()
     (6, 7)
+
+    Notes
+    -----
+    O(n + j) for n links and j joints.
+
+    References
+    ----------
+    The graph of a kinematic chain (links as vertices, joints as edges):
+    common practice, no single source.
     """
     g = nx.MultiGraph()
     for link in mech.links:
@@ -57,6 +77,7 @@ def link_graph(mech: Mechanism) -> nx.MultiGraph:
 
 
 def _template(edges, ground_roles):
+    """A chain template: its simple graph and the inversion named for each ground node."""
     g = nx.Graph()
     g.add_edges_from(edges)
     return g, ground_roles
@@ -98,6 +119,21 @@ def classify_chain(mech: Mechanism) -> tuple[str | None, str | None, str | None]
     indeterminate eight-bar chains, the double butterfly and the single flier.
     Only chains of revolute-like joints count (one edge per pair, no higher
     pairs); anything else gives ``(None, None, None)``.
+
+    Parameters
+    ----------
+    mech : Mechanism
+        The mechanism.
+
+    Returns
+    -------
+    chain : str or None
+        ``"Watt"``, ``"Stephenson"``, ``"double butterfly"`` or ``"single flier"``.
+    inversion : str or None
+        For a six-bar: ``"Watt I"``, ``"Watt II"``, ``"Stephenson I"``,
+        ``"Stephenson II"`` or ``"Stephenson III"``.
+    ground role : str or None
+        The ground link's role in words, e.g. ``"a ternary link"``.
 
     Examples
     --------
@@ -158,6 +194,22 @@ class Topology:
         From :func:`classify_chain`.
     notes : tuple of str
         Plain-words remarks (counted and numerical mobility differ, etc.).
+
+    Examples
+    --------
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> t = summarise_topology(demo_mechanism())
+    >>> t.n_links, t.n_joints, t.j1, t.j2, t.chain
+    (6, 7, 7, 0, 'Stephenson')
+
+    Notes
+    -----
+    Built by :func:`summarise_topology`; a frozen record.
+
+    References
+    ----------
+    Gruebler-Kutzbach criterion, loop count and link types: common practice,
+    no single source.
     """
 
     n_links: int
@@ -175,7 +227,28 @@ class Topology:
     notes: tuple
 
     def type_counts(self) -> dict[str, int]:
-        """Number of links of each type, e.g. ``{"binary": 4, "ternary": 2}``."""
+        """Number of links of each type, e.g. ``{"binary": 4, "ternary": 2}``.
+
+        Returns
+        -------
+        dict of str to int
+            Type name (see :data:`DEGREE_NAMES`; ``"<d>-joint"`` beyond six) ->
+            number of links, in order of increasing joint count.
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> summarise_topology(demo_mechanism()).type_counts()
+        {'binary': 4, 'ternary': 2}
+
+        Notes
+        -----
+        One sort of the link degrees, O(n log n).
+
+        References
+        ----------
+        Link types by number of joints: common practice, no single source.
+        """
         out: dict[str, int] = {}
         for d in sorted(self.link_types.values()):
             key = DEGREE_NAMES.get(d, f"{d}-joint")
@@ -189,6 +262,7 @@ def summarise_topology(mech: Mechanism, poses=None, *, rank_tol: float = 1e-9) -
     Parameters
     ----------
     mech : Mechanism
+        The mechanism.
     poses : ndarray, optional
         Link poses for the numerical mobility; the case's own position by default.
     rank_tol : float, default 1e-9
@@ -197,6 +271,7 @@ def summarise_topology(mech: Mechanism, poses=None, *, rank_tol: float = 1e-9) -
     Returns
     -------
     Topology
+        Counts, loops, link types, chain class and remarks.
 
     Examples
     --------

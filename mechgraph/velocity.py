@@ -41,11 +41,27 @@ def gruebler_mobility(mech: Mechanism) -> int:
     ``j1`` counts one-freedom joints (revolute, prismatic, rolling contact),
     ``j2`` two-freedom joints (pin-in-slot, cam contact, gear mesh).
 
+    Parameters
+    ----------
+    mech : Mechanism
+        The mechanism.
+
+    Returns
+    -------
+    int
+        The counted mobility; it may be below 1 (a structure) and may differ
+        from the mobility at a given position (:func:`numerical_mobility`).
+
     Examples
     --------
     >>> from mechgraph.casefile import demo_mechanism
     >>> gruebler_mobility(demo_mechanism())
     1
+
+    Notes
+    -----
+    Sums each joint's ``3 - freedoms`` constraints: O(j) for j joints.  It
+    counts constraints, not their independence.
 
     References
     ----------
@@ -68,12 +84,15 @@ def _frame(mech: Mechanism, poses, ar):
     out = []
     for x, y, t in np.asarray(poses, dtype=float):
         if t != 0.0 and ar.exact:
-            raise ArithmeticError_("exact arithmetic works at the case's own position only (link rotations must be zero)")
+            raise ArithmeticError_(
+                "exact arithmetic works at the case's own position only (link rotations must be zero)"
+            )
         out.append((ar.num(x) - ar.num(cx), ar.num(y) - ar.num(cy), ar.num(t) if t != 0.0 else 0))
     return out
 
 
 def _columns(n: int, g: int) -> list[int | None]:
+    """First column of each link's twist in the matrix (None for ground, which has none)."""
     out, c = [], 0
     for i in range(n):
         if i == g:
@@ -101,6 +120,7 @@ def _scatter(rows, a: int, b: int, col, ncols: int, L, ar) -> list:
 
 
 def _rows(mech: Mechanism, frame, ar):
+    """Every joint's rows over the moving links' scaled twists, with the joint name of each row."""
     n, g = mech.n_links, mech.ground_index
     col = _columns(n, g)
     ncols = 3 * (n - 1)
@@ -120,6 +140,7 @@ def constraint_rows(mech: Mechanism, poses: np.ndarray | None = None, *, arithme
     Parameters
     ----------
     mech : Mechanism
+        The mechanism.
     poses : ndarray, shape (n_links, 3), optional
         Link poses; the case's own position by default.
     arithmetic : optional
@@ -132,6 +153,35 @@ def constraint_rows(mech: Mechanism, poses: np.ndarray | None = None, *, arithme
         velocity of the link point at the drawing centre.
     row_joint : list of str
         Joint name of each row.
+
+    Raises
+    ------
+    ArithmeticError_
+        Exact arithmetic at poses with a link rotation.
+    ModelError
+        A contact joint (cam, rolling) at poses that move its two links
+        relative to each other.
+
+    Examples
+    --------
+    The demo's seven revolutes give two rows each, over five moving links:
+
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> A, row_joint = constraint_rows(demo_mechanism())
+    >>> A.shape, row_joint[:3]
+    ((14, 15), ['O2', 'O2', 'A'])
+
+    Notes
+    -----
+    Each joint's :meth:`~mechgraph.joints.Joint.twist_rows`, written about the
+    drawing centre with the angular column scaled by the drawing size, so
+    that the matrix does not depend on the origin or the length unit: O(j n)
+    to fill for j joints and n links.
+
+    References
+    ----------
+    Velocity constraints of planar joints on link twists: common practice, no
+    single source.
     """
     ar = arithmetic
     rows, names, _, ncols, _ = _rows(mech, _frame(mech, poses, ar), ar)
@@ -146,7 +196,9 @@ def numerical_mobility(
     Parameters
     ----------
     mech : Mechanism
-    poses : ndarray, optional
+        The mechanism.
+    poses : ndarray, shape (n_links, 3), optional
+        Link poses; the case's own position by default.
     rank_tol : float, default 1e-9
         Singular values below ``rank_tol`` times the largest count as zero
         (rows normalised first); exact arithmetic needs no threshold.
@@ -160,11 +212,29 @@ def numerical_mobility(
     rank : int
         Rank of the constraint matrix.
 
+    Raises
+    ------
+    ArithmeticError_
+        Exact arithmetic at poses with a link rotation.
+    ModelError
+        A contact joint at poses that move its two links relative to each other.
+
+    Examples
+    --------
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> numerical_mobility(demo_mechanism())
+    (1, 14)
+
     Notes
     -----
     One SVD of a (constraints x 3(n-1)) matrix: O(n^3).  Differs from the
     Gruebler-Kutzbach count where constraints are redundant (a parallelogram
     with a third parallel link) or the position is special (a change point).
+
+    References
+    ----------
+    Mobility as the dimension of the null space of the velocity constraints,
+    ``3 (n - 1) - rank``: common practice, no single source.
     """
     A, _ = constraint_rows(mech, poses, arithmetic=arithmetic)
     r = arithmetic.rank(A, rank_tol)
@@ -208,6 +278,26 @@ class VelocityState:
         rpm carries the factor pi/30, which no number field holds).
     rate_factor : object
         Exact common factor of the rates (sympy), 1 when the rates are rational.
+
+    Examples
+    --------
+    >>> from mechgraph.casefile import demo_mechanism
+    >>> m = demo_mechanism()
+    >>> v = analyse_velocities(m)
+    >>> round(v.angular_velocity(m.index["crank"]), 6)     # 120 rpm
+    12.566371
+    >>> v.basis.shape, v.driver_joints
+    ((1, 6, 3), ('O2',))
+
+    Notes
+    -----
+    Built by :func:`analyse_velocities`; a frozen record.  The twists are
+    ``rates @ basis``, linear in the driver rates.
+
+    References
+    ----------
+    Twists of planar rigid bodies and their poles (instant centers): common
+    practice, no single source.
     """
 
     link_names: tuple
@@ -227,15 +317,81 @@ class VelocityState:
     rate_factor: object = 1
 
     def twist_size(self, t) -> np.ndarray:
-        """Size of twist(s) ``t`` (last axis ``(w, vx, vy)``): ``|(w * scale, v at the drawing centre)|``."""
+        """Size of twist(s) ``t`` (last axis ``(w, vx, vy)``): ``|(w * scale, v at the drawing centre)|``.
+
+        Parameters
+        ----------
+        t : array_like, shape (..., 3)
+            One twist or an array of twists ``(w, vx, vy)``.
+
+        Returns
+        -------
+        ndarray, shape (...)
+            Their sizes in length units per second.
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> float(v.twist_size((0.0, 3.0, 4.0)))   # a translation: its speed
+        5.0
+
+        Notes
+        -----
+        Vectorised, O(size of ``t``).  Taken at the drawing centre and with
+        the angular part at drawing size, so it does not depend on the origin.
+
+        References
+        ----------
+        mechgraph's own yardstick; common practice, no single source.
+        """
         return _twist_size(np.asarray(t, dtype=float), self.scale, self.centre)
 
     def relative_twist(self, i: int, j: int) -> np.ndarray:
-        """Twist of link i relative to link j."""
+        """Twist of link i relative to link j.
+
+        Parameters
+        ----------
+        i, j : int
+            Link indices (:attr:`mechgraph.model.Mechanism.index`).
+
+        Returns
+        -------
+        ndarray, shape (3,)
+            ``twists[i] - twists[j]``.
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> round(float(v.relative_twist(m.index["crank"], m.index["frame"])[0]), 6)
+        12.566371
+
+        Notes
+        -----
+        One subtraction, O(1).
+
+        References
+        ----------
+        Relative twists of planar rigid bodies: common practice, no single source.
+        """
         return self.twists[i] - self.twists[j]
 
     def pole(self, i: int, j: int) -> tuple[float, float, float]:
         """Relative center of links i and j as a homogeneous point (null at relative rest).
+
+        Parameters
+        ----------
+        i, j : int
+            Link indices.
+
+        Returns
+        -------
+        tuple of float
+            ``(-(vy_i - vy_j), vx_i - vx_j, w_i - w_j)``: finite, or at infinity
+            when the two angular velocities are equal.
 
         Examples
         --------
@@ -245,12 +401,51 @@ class VelocityState:
         >>> p = v.pole(m.index["frame"], m.index["crank"])   # the crank pivot
         >>> round(p[0] / p[2], 9) + 0.0, round(p[1] / p[2], 9) + 0.0
         (0.0, 0.0)
+
+        Notes
+        -----
+        O(1).  The pole of a twist is the point of zero velocity; it is linear
+        in the twist, so relative poles add (the Aronhold-Kennedy theorem).
+
+        References
+        ----------
+        Instant center as the pole of a relative twist: common practice, no
+        single source.
         """
         w, vx, vy = self.relative_twist(i, j)
         return (float(-vy), float(vx), float(w))
 
     def kind_pole(self, i: int, j: int):
-        """The pole of pair (i, j) in the arithmetic's own numbers (floats for a float run)."""
+        """The pole of pair (i, j) in the arithmetic's own numbers (floats for a float run).
+
+        Parameters
+        ----------
+        i, j : int
+            Link indices.
+
+        Returns
+        -------
+        triple
+            As :meth:`pole`, in the arithmetic's numbers; in exact arithmetic
+            proportional to the true pole by :attr:`rate_factor`, which does
+            not move the point.
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> v.kind_pole(0, 1) == v.pole(0, 1)   # a float run
+        True
+
+        Notes
+        -----
+        O(1).
+
+        References
+        ----------
+        Common practice, no single source.
+        """
         if self.kind_twists is None:
             return self.pole(i, j)
         (wi, xi, yi), (wj, xj, yj) = self.kind_twists[i], self.kind_twists[j]
@@ -260,6 +455,34 @@ class VelocityState:
         """True when links i and j have (nearly) the same twist: their velocity pole is undefined.
 
         Exact arithmetic decides it exactly.
+
+        Parameters
+        ----------
+        i, j : int
+            Link indices.
+
+        Returns
+        -------
+        bool
+            In floating point: the relative twist's size (:meth:`twist_size`) is
+            at most :attr:`rest_tol` times :attr:`reference_size`; True for
+            every pair when nothing moves.
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> v.is_relative_rest(m.index["frame"], m.index["crank"]), v.is_relative_rest(1, 1)
+        (False, True)
+
+        Notes
+        -----
+        One twist size, O(1).
+
+        References
+        ----------
+        Common practice, no single source.
         """
         if self.kind_twists is not None and self.arithmetic.exact:
             return all(c == self.arithmetic.zero for c in self.kind_pole(i, j))
@@ -269,19 +492,90 @@ class VelocityState:
         return float(self.twist_size(self.relative_twist(i, j))) <= self.rest_tol * ref
 
     def angular_velocity(self, i: int) -> float:
+        """Angular velocity of link i, rad/s, counter-clockwise positive.
+
+        Parameters
+        ----------
+        i : int
+            Link index.
+
+        Returns
+        -------
+        float
+
+        Examples
+        --------
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> v.angular_velocity(m.index["frame"])
+        0.0
+
+        Notes
+        -----
+        O(1).
+
+        References
+        ----------
+        Common practice, no single source.
+        """
         return float(self.twists[i, 0])
 
     def point_velocity(self, i: int, r) -> tuple[float, float]:
-        """Velocity of the point of link i at global position r."""
+        """Velocity of the point of link i at global position r.
+
+        Parameters
+        ----------
+        i : int
+            Link index.
+        r : (float, float)
+            The point, in global coordinates.
+
+        Returns
+        -------
+        (float, float)
+            ``(vx - w r_y, vy + w r_x)``, length units per second.
+
+        Examples
+        --------
+        The crank turns at 120 rpm about the origin; its point at (10, 0)
+        moves straight up at 10 w:
+
+        >>> from mechgraph.casefile import demo_mechanism
+        >>> m = demo_mechanism()
+        >>> v = analyse_velocities(m)
+        >>> tuple(round(c, 6) + 0.0 for c in v.point_velocity(m.index["crank"], (10.0, 0.0)))
+        (0.0, 125.663706)
+
+        Notes
+        -----
+        O(1).
+
+        References
+        ----------
+        Velocity of a rigid body point, ``v(r) = v0 + w k x r``: common practice,
+        no single source.
+        """
         w, vx, vy = self.twists[i]
         return (float(vx - w * r[1]), float(vy + w * r[0]))
 
 
 def _twist_size(t: np.ndarray, scale: float, centre) -> np.ndarray:
+    """Vectorised :meth:`VelocityState.twist_size`."""
     w, vx, vy = t[..., 0], t[..., 1], t[..., 2]
     cx, cy = centre
     # the angular part at drawing size, and the velocity at the drawing centre
     return np.sqrt((w * scale) ** 2 + (vx - w * cy) ** 2 + (vy + w * cx) ** 2)
+
+
+#: Extra decimal digits with which an exact driver rate (such as 4*pi for 120 rpm)
+#: is evaluated for a high-precision run, so that its rounding stays below the
+#: arithmetic's own working precision.
+RATE_GUARD_DIGITS = 5
+
+#: Working digits assumed for a high-precision arithmetic that does not state
+#: its own: the default of :class:`mechgraph.arithmetic.PrecisionArithmetic`.
+FALLBACK_DIGITS = 50
 
 
 def _kind_rates(mech: Mechanism, ar):
@@ -290,7 +584,7 @@ def _kind_rates(mech: Mechanism, ar):
         return [float(d.rate) for d in mech.drivers], 1
     exact = [d.exact_rate() for d in mech.drivers]
     if not ar.exact:
-        digits = getattr(ar, "digits", 50) + 5
+        digits = getattr(ar, "digits", FALLBACK_DIGITS) + RATE_GUARD_DIGITS
         return [ar.num(str(e.evalf(digits))) for e in exact], 1
     if not exact:
         return [], 1
@@ -326,6 +620,7 @@ def analyse_velocities(
     Parameters
     ----------
     mech : Mechanism
+        The mechanism, with its drivers.
     poses : ndarray, shape (n_links, 3), optional
         Link poses; the case's own position by default.
     rank_tol : float, default 1e-9
@@ -340,14 +635,21 @@ def analyse_velocities(
     Returns
     -------
     VelocityState
+        Every link's twist, per unit driver rate and at the given rates.
 
     Raises
     ------
     DriverError
-        The number of drivers differs from the freedoms at this position.
+        The number of drivers differs from the freedoms at this position, or
+        every driver rate is zero.
     SingularPositionError
         With every driver held the mechanism can still move (a dead point or
         change point): the message names the links that can move and their joints.
+    ArithmeticError_
+        Exact arithmetic at poses with a link rotation, or exact driver rates
+        in units with no common factor.
+    ModelError
+        A contact joint at poses that move its two links relative to each other.
 
     Examples
     --------
@@ -362,6 +664,12 @@ def analyse_velocities(
     Builds the constraint matrix (2 rows per lower pair, 1 per higher pair) and
     the driver rows, takes the rank decisions and solves for every driver's
     unit rate at once: O(n^3) for n links.
+
+    References
+    ----------
+    Velocity analysis from the linear constraint equations of the joints, and
+    relative centers as poles of relative twists: common practice, no single
+    source.
     """
     ar = arithmetic
     n, g, Lf = mech.n_links, mech.ground_index, mech.scale
@@ -425,7 +733,8 @@ def analyse_velocities(
     if ar.name != "float":
         krates, factor = _kind_rates(mech, ar)
         kind_twists = tuple(
-            tuple(sum((krates[k] * kind_basis[k][i][c] for k in range(nd)), ar.zero) for c in range(3)) for i in range(n)
+            tuple(sum((krates[k] * kind_basis[k][i][c] for k in range(nd)), ar.zero) for c in range(3))
+            for i in range(n)
         )
     return VelocityState(
         link_names=mech.link_names,
@@ -447,11 +756,12 @@ def analyse_velocities(
 
 
 def _driver_count_error(mech: Mechanism, mobility: int, gm: int, nd: int):
+    """Raise the DriverError for a driver count that differs from the mobility."""
     counted = f" (the Gruebler-Kutzbach count says {gm})" if gm != mobility else ""
     if mobility <= 0:
         raise DriverError(
-            f"mechanism '{mech.name}' has no freedom at this position{counted}: it is a structure and cannot be driven; "
-            f"remove the {nd} driver(s) or a constraint"
+            f"mechanism '{mech.name}' has no freedom at this position{counted}: "
+            f"it is a structure and cannot be driven; remove the {nd} driver(s) or a constraint"
             if nd
             else f"mechanism '{mech.name}' has no freedom at this position{counted}: it is a structure, nothing moves"
         )
@@ -466,13 +776,21 @@ def _driver_count_error(mech: Mechanism, mobility: int, gm: int, nd: int):
 #: this fraction of the largest share (a plain threshold on a unit vector).
 SINGULAR_SHARE = 1e-6
 
+#: Floor of the largest share in that test, so that the threshold stays
+#: positive even for a (numerically) zero null vector: only a link with a share
+#: above the floor counts.  Far below any real share, so it changes nothing else.
+NULL_SHARE_FLOOR = 1e-300
+
 
 def _singular_error(mech: Mechanism, null: np.ndarray, col, drivers, *, dependent=(), extra=0, gruebler=None):
+    """Raise the SingularPositionError naming the links that move in the null vector, and why."""
     size = np.zeros(mech.n_links)
     for i, c in enumerate(col):
         if c is not None:
             size[i] = np.linalg.norm(null[c : c + 3])
-    moving = tuple(mech.link_names[i] for i in np.flatnonzero(size > SINGULAR_SHARE * max(size.max(), 1e-300)))
+    moving = tuple(
+        mech.link_names[i] for i in np.flatnonzero(size > SINGULAR_SHARE * max(size.max(), NULL_SHARE_FLOOR))
+    )
     joints = tuple(j.name for j in mech.joints if set(j.links) & set(moving))
     held = ", ".join(f"'{d.joint}'" for d in drivers) or "(none)"
     links = ", ".join(repr(x) for x in moving)
@@ -488,7 +806,8 @@ def _singular_error(mech: Mechanism, null: np.ndarray, col, drivers, *, dependen
     elif len(dependent) == 1 and len(drivers) == 1:
         why = (
             f"the driver on '{dependent[0]}' cannot move the mechanism at this position: its joint is locked by the "
-            f"rest of the linkage here (a dead point); {still}. Drive another joint, or analyse a position away from this one"
+            f"rest of the linkage here (a dead point); {still}. "
+            "Drive another joint, or analyse a position away from this one"
         )
     elif dependent:
         names = " and ".join(f"'{x}'" for x in dependent)
