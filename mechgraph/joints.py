@@ -74,9 +74,8 @@ GEAR_DISTANCE_TOL = 1e-6
 
 #: Tolerance of the agreement between a pitch point given in code together with
 #: the radii and the pitch point the radii put on the line of centres:
-#: ``|P_given - P_radii| <= PITCH_POINT_TOL * (1 + |P_radii|)`` (relative to the
-#: pitch point's distance from the origin, with a floor of ``PITCH_POINT_TOL``
-#: drawing units near the origin).  The same figure as the default
+#: ``|P_given - P_radii| <= PITCH_POINT_TOL * |C1 C2|`` (relative to the centre
+#: distance, so it does not depend on units or on where the gears lie).  The same figure as the default
 #: :attr:`mechgraph.model.Mechanism.coincidence_tol`: both say "the same point".
 PITCH_POINT_TOL = 1e-9
 
@@ -229,7 +228,13 @@ def _unit(v: Vec, what: str) -> Vec:
 
 def _direction(ar, given: Vec, deg, theta):
     """A direction in the arithmetic ``ar``: from degrees when given (exact trigonometry), else the given vector."""
-    v = ar.trig_deg(deg) if deg is not None else (ar.num(given[0]), ar.num(given[1]))
+    if deg is not None:
+        v = ar.trig_deg(deg)
+    elif ar.name == "float":
+        n = math.hypot(given[0], given[1])  # unit in floating point: residuals then measure lengths
+        v = (given[0] / n, given[1] / n)
+    else:
+        v = (ar.num(given[0]), ar.num(given[1]))  # exact: as given (the constraints are homogeneous in it)
     return ar.rotate(v, theta) if theta != 0 else v
 
 
@@ -685,7 +690,7 @@ class Prismatic(Joint):
     >>> j.axis
     (0.0, 1.0)
     >>> j.primary(zero, zero).point        # at infinity, perpendicular to the axis
-    (-2.0, 0.0, 0.0)
+    (-1.0, 0.0, 0.0)
     >>> j.residual(zero, (0.0, 5.0, 0.0)) + 0.0   # sliding along the axis keeps the joint
     array([0., 0.])
 
@@ -1082,7 +1087,7 @@ class GearMesh(Joint):
             p = self._pitch_from_radii(FLOAT)
             if (
                 self.pitch_point is not None
-                and math.dist(p, self.pitch_point) > PITCH_POINT_TOL * (1.0 + math.hypot(*p))
+                and math.dist(p, self.pitch_point) > PITCH_POINT_TOL * math.dist(*self.centers)
             ):
                 raise ModelError(
                     f"{self.label()}: pitch_point {list(self.pitch_point)} disagrees with the radii, which put it at "

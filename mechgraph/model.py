@@ -380,7 +380,8 @@ class Mechanism:
                 )
             for p in joint.reference_points():
                 _check_coordinate(p, f"{joint.label()}: coordinate", self.max_coordinate)
-        far = float(np.abs(self.reference_points).max()) if self.reference_points.size else 0.0
+        joint_pts = np.asarray([p for j in self.joints for p in j.reference_points()], dtype=float).reshape(-1, 2)
+        far = float(np.abs(joint_pts).max()) if joint_pts.size else 0.0
         raw = self._raw_size()
         if 0.0 < raw and (raw < MIN_RELATIVE_SIZE * far or raw < MIN_ABSOLUTE_SIZE):
             raise ModelError(

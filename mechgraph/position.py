@@ -30,7 +30,8 @@ class AssemblyError(MechgraphError):
     message : str
         What failed, naming the mechanism and the inputs.
     residual : float
-        Largest residual after the last step, in drawing units.
+        Largest residual after the last step: distances as a share of the
+        drawing size, angles in radians.
     iterations : int
         Newton steps taken.
 
@@ -40,7 +41,7 @@ class AssemblyError(MechgraphError):
     >>> try:
     ...     assemble(demo_mechanism(), [3.0])    # 3 rad of crank in one Newton run: too far
     ... except AssemblyError as e:
-    ...     e.iterations, e.residual > 1.0
+    ...     e.iterations, e.residual > 1e-3
     (50, True)
 
     Notes
@@ -106,12 +107,18 @@ def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:
         except ModelError:
             j.twist_rows(poses[a], poses[b])  # contacts: raises unless the links keep their drawn relative pose
             continue
-        worst = float(np.max(np.abs(r))) if r.size else 0.0
-        if worst > tol * mech.scale:
+        worst = float(np.max(np.abs(r) / _row_scales(j, len(r), mech.scale))) if r.size else 0.0
+        if worst > tol:
             raise ModelError(
                 f"{j.label()} does not hold at the given link poses (residual {worst:.3g}); "
                 "the poses must describe an assembled position (see mechgraph.position.assemble)"
             )
+
+
+def _row_scales(joint, k: int, scale: float) -> np.ndarray:
+    """Per residual row: the drawing size for a distance, 1 for an angle (so ``tol`` is relative / radians)."""
+    lengths = getattr(joint, "residual_is_length", (True,) * k)
+    return np.array([scale if is_len else 1.0 for is_len in lengths[:k]] + [scale] * (k - len(lengths[:k])))
 
 
 def _driver_value(mech: Mechanism, joint, pa, pb) -> float:
@@ -184,11 +191,12 @@ def _pose_jacobian(rows: np.ndarray, pose) -> np.ndarray:
 def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
     """Residuals, Jacobian over the moving links' pose columns, and those columns' indices."""
     g = mech.ground_index
-    res, jac = [], []
+    res, jac, sizes = [], [], []
     n = mech.n_links
     for j in mech.joints:
         a, b = (mech.index[x] for x in j.links)
         r = np.atleast_1d(j.residual(poses[a], poses[b]))
+        sizes.append(_row_scales(j, len(r), mech.scale))
         rows = np.atleast_2d(np.asarray(j.twist_rows(poses[a], poses[b]), dtype=float))
         block = np.zeros((len(r), 3 * n))
         block[:, 3 * a : 3 * a + 3] += _pose_jacobian(rows[:, :3], poses[a])
@@ -199,6 +207,7 @@ def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
         j = mech.joint_by_name[d.joint]
         a, b = (mech.index[x] for x in j.links)
         res.append(np.array([_driver_value(mech, j, poses[a], poses[b]) - targets[k]]))
+        sizes.append(np.array([1.0 if j.drive == "rotation" else mech.scale]))
         row = np.asarray(j.driver_row(poses[a], poses[b]), dtype=float)[None, :]
         block = np.zeros((1, 3 * n))
         block[:, 3 * a : 3 * a + 3] += _pose_jacobian(row[:, :3], poses[a])
@@ -206,7 +215,7 @@ def _system(mech: Mechanism, poses: np.ndarray, targets: np.ndarray):
         jac.append(block)
     J = np.vstack(jac)
     keep = [c for c in range(3 * n) if c // 3 != g]
-    return np.concatenate(res), J[:, keep], keep
+    return np.concatenate(res), J[:, keep], keep, np.concatenate(sizes)
 
 
 def assemble(
@@ -275,9 +284,9 @@ def assemble(
     L = mech.scale
     norm = np.inf
     for it in range(1, max_iterations + 1):
-        r, J, keep = _system(mech, poses, targets)
-        norm = float(np.max(np.abs(r))) if r.size else 0.0
-        if norm <= tol * L:
+        r, J, keep, sizes = _system(mech, poses, targets)
+        norm = float(np.max(np.abs(r) / sizes)) if r.size else 0.0  # distances per drawing size, angles in radians
+        if norm <= tol:
             return poses
         step = np.linalg.lstsq(J, -r, rcond=None)[0]
         flat = poses.reshape(-1)

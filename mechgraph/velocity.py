@@ -29,7 +29,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .arithmetic import FLOAT, ArithmeticError_
-from .errors import DriverError, SingularPositionError
+from .errors import DriverError, ModelError, SingularPositionError
 from .model import Mechanism
 
 __all__ = ["VelocityState", "constraint_rows", "numerical_mobility", "analyse_velocities", "gruebler_mobility"]
@@ -76,6 +76,11 @@ def _frame(mech: Mechanism, poses, ar):
     cx, cy = mech.centre
     if poses is None:
         poses = mech.reference_poses()
+    shape = np.shape(poses)
+    if shape != (mech.n_links, 3):
+        raise ModelError(f"poses must have shape ({mech.n_links}, 3), one (x, y, theta) per link; got {shape}")
+    if not np.all(np.isfinite(np.asarray(poses, dtype=float))):
+        raise ModelError("poses must be finite numbers")
     if ar is FLOAT or ar.name == "float":
         s = np.array(poses, dtype=float, copy=True)
         s[:, 0] -= cx
