@@ -326,7 +326,7 @@ def analyse(
     DriverError, SingularPositionError
         From the velocity analysis (drivers that do not match the freedoms; a
         dead point).
-    ArithmeticError_
+    NumberKindError
         The inputs do not fit the chosen arithmetic.
 
     Examples

@@ -40,7 +40,7 @@ from typing import Sequence
 import numpy as np
 
 from . import projective as pg
-from .errors import MechgraphError
+from .errors import NumberKindError
 
 __all__ = [
     "TypedFloat",
@@ -49,17 +49,13 @@ __all__ = [
     "ExactArithmetic",
     "PrecisionArithmetic",
     "FLOAT",
-    "ArithmeticError_",
+    "NumberKindError",
     "make_arithmetic",
     "KINDS",
 ]
 
 #: Names of the arithmetics, as the command line takes them.
 KINDS = ("float", "exact", "precision")
-
-
-class ArithmeticError_(MechgraphError):
-    """A computation cannot be done in the chosen arithmetic (e.g. exact mode away from the case's position)."""
 
 
 class TypedFloat(float):
@@ -388,7 +384,7 @@ class PrecisionArithmetic(FloatArithmetic):
         F = _normalise_rows(np.array([[float(A[i, j]) for j in range(A.cols)] for i in range(A.rows)]))
         chosen = _independent_rows(F)
         if len(chosen) < A.cols:
-            raise ArithmeticError_("the high-precision velocity equations have no unique solution")
+            raise NumberKindError("the high-precision velocity equations have no unique solution")
         S = self.ctx.matrix(A.cols, A.cols)
         R = self.ctx.matrix(A.cols, B.cols)
         for r, i in enumerate(chosen):
@@ -462,11 +458,11 @@ class ExactArithmetic:
         try:
             K, _ = construct_domain(exprs, extension=True)
         except Exception as e:  # sympy raises several kinds here
-            raise ArithmeticError_(f"exact arithmetic cannot hold these inputs in one number field: {e}") from None
+            raise NumberKindError(f"exact arithmetic cannot hold these inputs in one number field: {e}") from None
         if K.is_ZZ:
             K = K.get_field()
         if K.is_EX or K.is_EXRAW:
-            raise ArithmeticError_(
+            raise NumberKindError(
                 "exact arithmetic needs inputs that lie in one algebraic number field; "
                 "give directions as vectors [dx, dy] or use the high-precision arithmetic"
             )
@@ -485,7 +481,7 @@ class ExactArithmetic:
         try:
             return self.K.from_sympy(expr)
         except Exception:
-            raise ArithmeticError_(f"{expr} does not lie in the number field {self.K} of this mechanism") from None
+            raise NumberKindError(f"{expr} does not lie in the number field {self.K} of this mechanism") from None
 
     def sqrt(self, x):
         from sympy import sqrt
@@ -500,7 +496,7 @@ class ExactArithmetic:
 
     def rotate(self, v, theta):
         if theta != 0:
-            raise ArithmeticError_("exact arithmetic works at the case's own position only (link rotations must be zero)")
+            raise NumberKindError("exact arithmetic works at the case's own position only (link rotations must be zero)")
         return (self.num(v[0]), self.num(v[1]))
 
     def place(self, local, pose):
@@ -585,7 +581,7 @@ class ExactArithmetic:
         aug = A.hstack(B)
         R, pivots = aug.rref()
         if tuple(pivots[:n]) != tuple(range(n)) or any(p >= n for p in pivots):
-            raise ArithmeticError_("the exact velocity equations have no unique solution")
+            raise NumberKindError("the exact velocity equations have no unique solution")
         return [[R[i, n + c].element for c in range(B.shape[1])] for i in range(n)]
 
 

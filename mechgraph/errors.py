@@ -10,9 +10,14 @@ from __future__ import annotations
 __all__ = [
     "MechgraphError",
     "CaseFileError",
+    "HandCheckError",
     "ModelError",
     "DriverError",
     "SingularPositionError",
+    "AssemblyError",
+    "RelaxationError",
+    "IncompleteRelaxationError",
+    "NumberKindError",
     "OutputError",
 ]
 
@@ -73,3 +78,52 @@ class SingularPositionError(MechgraphError):
 
 class OutputError(MechgraphError):
     """An output file cannot be written (or would overwrite the input)."""
+
+
+class HandCheckError(CaseFileError):
+    """A hand file cannot be read or does not fit its case.
+
+    The message names the file, the line (CSV) or the entry and field (TOML),
+    and says what would be valid.  A subclass of :class:`CaseFileError`, so it
+    is a bad input like any case-file error.
+    """
+
+
+class AssemblyError(MechgraphError):
+    """Newton's method did not assemble the mechanism (the input is out of reach, or a branch point).
+
+    Attributes
+    ----------
+    residual : float
+        Largest residual after the last step: distances as a share of the
+        drawing size, angles in radians.
+    iterations : int
+        Newton steps taken.
+    """
+
+    def __init__(self, message: str, *, residual: float, iterations: int):
+        self.residual = residual
+        self.iterations = iterations
+        super().__init__(message)
+
+
+class RelaxationError(MechgraphError):
+    """The relaxation method cannot be applied as asked (names the link or joint at fault)."""
+
+
+class IncompleteRelaxationError(RelaxationError):
+    """Some centers were reached neither by the theorem nor by any relaxation.
+
+    Attributes
+    ----------
+    pairs : tuple of str
+        The pairs left, ``"link-link"``.
+    """
+
+    def __init__(self, message: str, *, pairs: tuple[str, ...] = ()):
+        self.pairs = tuple(pairs)
+        super().__init__(message)
+
+
+class NumberKindError(MechgraphError):
+    """A computation cannot be done in the chosen arithmetic (e.g. exact mode away from the drawn position)."""

@@ -168,7 +168,7 @@ from pathlib import Path
 
 from . import projective as pg
 from .analysis import Analysis
-from .errors import CaseFileError
+from .errors import CaseFileError, HandCheckError  # noqa: F401 - HandCheckError is part of this module's API
 from .joints import Revolute
 from .model import LENGTH_UNITS, Mechanism
 from .report import CAUTION
@@ -242,16 +242,6 @@ _TOP_KEYS = {"hand", "center", "angular_velocity", "point_velocity"}
 _CENTER_KEYS = {"pair", "at", "at_infinity_deg", "tolerance", "angle_tolerance_deg", "unit", "notes"}
 _OMEGA_KEYS = {"link", "tolerance", "relative", "notes", *_RATE_UNITS}
 _POINT_KEYS = {"point", "v", "speed", "tolerance", "relative", "unit", "notes"}
-
-
-class HandCheckError(CaseFileError):
-    """A hand file cannot be read or does not fit its case.
-
-    The message names the file, the line (CSV) or the entry and field (TOML),
-    and says what would be valid.  A subclass of
-    :class:`~mechgraph.errors.CaseFileError`, so it is a bad input like any
-    case-file error.
-    """
 
 
 # --------------------------------------------------------------------------- the given items

@@ -48,7 +48,7 @@ import numpy as np
 from . import projective as pg
 from .analysis import describe_derivation, primary_seeds
 from .crosscheck import collinearity_residuals
-from .errors import MechgraphError
+from .errors import IncompleteRelaxationError, MechgraphError, RelaxationError  # noqa: F401
 from .joints import GearMesh, Joint
 from .model import Link, Mechanism
 from .three_centers import Locus, ThreeCentersResult, pair_index, pairs, solve_three_centers
@@ -71,24 +71,6 @@ __all__ = [
 
 #: Points farther than this many drawing sizes are written "at infinity" in derivations.
 _FAR = 1e12
-
-
-class RelaxationError(MechgraphError):
-    """The relaxation method cannot be applied as asked (names the link or joint at fault)."""
-
-
-class IncompleteRelaxationError(RelaxationError):
-    """Some centers were reached neither by the theorem nor by any relaxation.
-
-    Attributes
-    ----------
-    pairs : tuple of str
-        The pairs left, ``"link-link"``.
-    """
-
-    def __init__(self, message: str, *, pairs: tuple[str, ...] = ()):
-        self.pairs = tuple(pairs)
-        super().__init__(message)
 
 
 # ------------------------------------------------------------------ counting

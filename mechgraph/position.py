@@ -16,47 +16,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from .errors import MechgraphError, ModelError
+from .errors import AssemblyError, ModelError
 from .model import Mechanism
 
 __all__ = ["input_coordinates", "assemble", "AssemblyError", "check_assembled"]
-
-
-class AssemblyError(MechgraphError):
-    """Newton's method did not assemble the mechanism (the input is out of reach, or a branch point).
-
-    Parameters
-    ----------
-    message : str
-        What failed, naming the mechanism and the inputs.
-    residual : float
-        Largest residual after the last step: distances as a share of the
-        drawing size, angles in radians.
-    iterations : int
-        Newton steps taken.
-
-    Examples
-    --------
-    >>> from mechgraph.casefile import demo_mechanism
-    >>> try:
-    ...     assemble(demo_mechanism(), [3.0])    # 3 rad of crank in one Newton run: too far
-    ... except AssemblyError as e:
-    ...     e.iterations, e.residual > 1e-3
-    (50, True)
-
-    Notes
-    -----
-    Carries the data of the failure, like any convergence error.
-
-    References
-    ----------
-    Common practice, no single source.
-    """
-
-    def __init__(self, message: str, *, residual: float, iterations: int):
-        self.residual = residual
-        self.iterations = iterations
-        super().__init__(message)
 
 
 def check_assembled(mech: Mechanism, poses, *, tol: float = 1e-9) -> None:

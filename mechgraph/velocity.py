@@ -28,8 +28,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .arithmetic import FLOAT, ArithmeticError_
-from .errors import DriverError, ModelError, SingularPositionError
+from .arithmetic import FLOAT
+from .errors import DriverError, ModelError, NumberKindError, SingularPositionError
 from .model import Mechanism
 
 __all__ = ["VelocityState", "constraint_rows", "numerical_mobility", "analyse_velocities", "gruebler_mobility"]
@@ -89,7 +89,7 @@ def _frame(mech: Mechanism, poses, ar):
     out = []
     for x, y, t in np.asarray(poses, dtype=float):
         if t != 0.0 and ar.exact:
-            raise ArithmeticError_(
+            raise NumberKindError(
                 "exact arithmetic works at the case's own position only (link rotations must be zero)"
             )
         out.append((ar.num(x) - ar.num(cx), ar.num(y) - ar.num(cy), ar.num(t) if t != 0.0 else 0))
@@ -161,7 +161,7 @@ def constraint_rows(mech: Mechanism, poses: np.ndarray | None = None, *, arithme
 
     Raises
     ------
-    ArithmeticError_
+    NumberKindError
         Exact arithmetic at poses with a link rotation.
     ModelError
         A contact joint (cam, rolling) at poses that move its two links
@@ -219,7 +219,7 @@ def numerical_mobility(
 
     Raises
     ------
-    ArithmeticError_
+    NumberKindError
         Exact arithmetic at poses with a link rotation.
     ModelError
         A contact joint at poses that move its two links relative to each other.
@@ -600,11 +600,11 @@ def _kind_rates(mech: Mechanism, ar):
     for e in exact:
         coeff, rest = e.as_coeff_Mul()
         if not isinstance(coeff, Rational):
-            raise ArithmeticError_(f"exact arithmetic: the rate {e} is not a rational multiple of a unit factor")
+            raise NumberKindError(f"exact arithmetic: the rate {e} is not a rational multiple of a unit factor")
         if factor is None:
             factor = rest
         elif rest != factor and coeff != 0:
-            raise ArithmeticError_(
+            raise NumberKindError(
                 "exact arithmetic needs every driver rate in the same unit (rpm, rad_per_s, deg_per_s or speed): "
                 f"the rates {', '.join(str(x) for x in exact)} have no common factor"
             )
@@ -650,7 +650,7 @@ def analyse_velocities(
     SingularPositionError
         With every driver held the mechanism can still move (a dead point or
         change point): the message names the links that can move and their joints.
-    ArithmeticError_
+    NumberKindError
         Exact arithmetic at poses with a link rotation, or exact driver rates
         in units with no common factor.
     ModelError
