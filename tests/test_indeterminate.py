@@ -37,7 +37,7 @@ from mechgraph import projective as pg
 from mechgraph.analysis import analyse, locate_centers
 from mechgraph.casefile import demo_mechanism, load_case
 from mechgraph.errors import MechgraphError, SingularPositionError
-from mechgraph.generate import _triangle_sine
+from mechgraph.generate import DOUBLE_BUTTERFLY, SINGLE_FLIER, random_pin_chain as random_chain
 from mechgraph.indeterminate import (
     IncompleteRelaxationError,
     RelaxationError,
@@ -69,54 +69,9 @@ SEP_TOL = 1e-8
 # single flier of Di Gregorio, ASME J. Mech. Des. 130(4):042303, 2008, as
 # described in references.md "Indeterminate linkages").  For an instantaneous
 # velocity analysis any placement of the pins is a position (each link is the
-# rigid body holding its pins; common practice, no source).
-DOUBLE_BUTTERFLY = (
-    "T1",
-    ("T2", "T3", "T4", "B1", "B2", "B3", "B4"),
-    (("T1", "T2"), ("T3", "T4"), ("T1", "B1"), ("B1", "T3"), ("T1", "B2"), ("B2", "T4"),
-     ("T2", "B3"), ("B3", "T3"), ("T2", "B4"), ("B4", "T4")),
-)
-SINGLE_FLIER = (
-    "L1",
-    ("L2", "L3", "L4", "F", "B1", "B2", "B3"),
-    (("L1", "L2"), ("L2", "L3"), ("L3", "L4"), ("L4", "L1"), ("F", "B1"), ("F", "B2"), ("F", "B3"),
-     ("B1", "L1"), ("B2", "L2"), ("B3", "L3")),
-)
-
-
-def chain(topology, pins, name: str) -> Mechanism:
-    ground, others, edges = topology
-    links = [Link(ground, ground=True)] + [Link(x) for x in others]
-    joints = [Revolute(f"J{k}", e, at=(float(p[0]), float(p[1]))) for k, (e, p) in enumerate(zip(edges, pins))]
-    return Mechanism(name=name, links=links, joints=joints, drivers=[Driver("J0", 1.0)])
-
-
-def random_chain(topology, rng, name: str, *, size=100.0, min_separation=0.05, min_sine=0.1, max_ratio=20.0):
-    """Pins drawn uniformly in a box; draws near a dead point or with a near-collinear ternary link are rejected.
-
-    The rejection keeps the velocity analysis (the reference) well conditioned;
-    it looks at nothing the relaxation method computes.
-    """
-    for _ in range(1000):
-        pts = rng.uniform(0.0, size, (len(topology[2]), 2))
-        d = np.hypot(*(pts[:, None] - pts[None]).transpose(2, 0, 1))
-        np.fill_diagonal(d, np.inf)
-        if d.min() < min_separation * size:
-            continue
-        m = chain(topology, pts, name)
-        held: dict[str, list] = {}
-        for j in m.joints:
-            for x in j.links:
-                held.setdefault(x, []).append(j.at)
-        if any(len(p) == 3 and _triangle_sine(*p) < min_sine for p in held.values()):
-            continue
-        try:
-            v = analyse_velocities(m)
-        except SingularPositionError:
-            continue
-        if np.abs(v.twists[:, 0]).max() <= max_ratio:  # crank at 1 rad/s
-            return m
-    raise AssertionError("no acceptable draw")  # pragma: no cover
+# rigid body holding its pins; common practice, no source).  The chain
+# templates and the generator (random_chain, drawing pins until the draw is
+# well conditioned) live in mechgraph.generate.
 
 
 def separation(m: Mechanism, p, q) -> float:

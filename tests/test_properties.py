@@ -1,9 +1,19 @@
-"""Property tests of the whole pipeline on random mechanisms of several topologies.
+"""Property tests of the whole pipeline on random mechanisms of every generated topology.
 
 Random joint coordinates always describe a valid position for an
 instantaneous velocity analysis (each link is the rigid body holding its
 joint points), so the generators of :mod:`mechgraph.generate` give test
 mechanisms of any shape; draws at a dead point are rejected.
+
+Every property runs over every key of :data:`mechgraph.generate.TOPOLOGIES`:
+pin-jointed chains and sliders, a cam and follower (rocking and translating),
+a pin in a slot, gears on the frame and a planetary train, a wheel rolling on
+a track and on another wheel, the two-freedom five-bar, and the two
+indeterminate eight-bars.  Where the three-centers theorem reaches every
+center the two methods must agree on all of them; in the two-freedom five-bar
+the centers the theorem cannot reach come from the velocity analysis and must
+stay on their ratio lines; in the eight-bars every center must be found and
+agree with the velocity poles.
 
 Centers are compared as homogeneous points with
 :func:`mechgraph.projective.point_separation` at the drawing scale (about
@@ -27,6 +37,7 @@ from mechgraph import projective as pg
 from mechgraph.analysis import analyse, locate_centers
 from mechgraph.errors import SingularPositionError
 from mechgraph.generate import (
+    DETERMINATE,
     TOPOLOGIES,
     _triangle_sine,
     four_bar,
@@ -36,8 +47,12 @@ from mechgraph.generate import (
     stephenson_six_bar,
     watt_six_bar,
 )
-from mechgraph.joints import Prismatic, Revolute
+from mechgraph.indeterminate import locate_by_relaxation
+from mechgraph.joints import CamContact, GearMesh, PinInSlot, Prismatic, Revolute, RollingContact
 from mechgraph.model import Driver, Link, Mechanism
+from mechgraph.three_centers import pair_index
+from mechgraph.topology import classify_chain
+from mechgraph.velocity import gruebler_mobility, numerical_mobility
 
 #: Agreement of two float computations of one well-conditioned center
 #: (scale-free separation); float results agree to ~1e-12.
@@ -49,10 +64,15 @@ OMEGA_TOL = 1e-9
 
 #: Examples per property; ``MECHGRAPH_EXAMPLES_FACTOR=20`` runs a thorough pass.
 _FACTOR = max(1, int(os.environ.get("MECHGRAPH_EXAMPLES_FACTOR", "1")))
-PROPERTY = settings(max_examples=50 * _FACTOR, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 FEW = settings(max_examples=30 * _FACTOR, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+#: Examples per topology of each property run once per topology (15 topologies).
+PER_KIND = settings(max_examples=8 * _FACTOR, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 
-kinds = st.sampled_from(sorted(TOPOLOGIES))
+ALL_KINDS = sorted(TOPOLOGIES)
+EIGHT_BARS = ("double-butterfly", "single-flier")
+TWO_FREEDOM = ("five-bar-2dof",)
+assert set(DETERMINATE) | set(EIGHT_BARS) | set(TWO_FREEDOM) == set(ALL_KINDS)
+per_kind = pytest.mark.parametrize("kind", ALL_KINDS)
 seeds = st.integers(min_value=0, max_value=2**32 - 1)
 
 
@@ -115,6 +135,65 @@ def _assert_methods_agree(a):
             assert sep <= SEP_TOL, (c.pair, c.check)
 
 
+def _assert_eight_bar_complete(a):
+    """Every center of an indeterminate eight-bar is found and agrees with the velocity pole.
+
+    The theorem leaves some centers; the analysis may label them "relaxation"
+    (located geometrically, cross-checked) or "velocity" (the pole itself).
+    Either way the geometric relaxation method, run here on its own, must
+    give the same point (Foster & Pennock's relaxation, ASME IDETC 2004,
+    abstract as recorded in /work/shared/references.md).
+    """
+    m, L, O = a.mechanism, a.mechanism.scale, a.mechanism.centre
+    assert a.passed
+    unreached = set(a.three_centers.unresolved)
+    assert unreached  # indeterminate whatever the geometry (references.md, "Indeterminate linkages")
+    relaxed = locate_by_relaxation(m)
+    assert relaxed.complete
+    for c in a.centers:
+        assert c.point is not None, c.pair
+        assert c.velocity_point is not None and not c.relative_rest, c.pair
+        if (c.i, c.j) in unreached:
+            assert c.method in ("relaxation", "velocity"), (c.pair, c.method)
+        else:
+            assert c.method in ("joint", "three-centers", "coincident"), (c.pair, c.method)
+        if c.method != "velocity":
+            assert c.check is not None and c.check.passed, c
+        assert pg.point_separation(c.point, c.velocity_point, scale=L, origin=O) <= SEP_TOL, c.pair
+        geo = relaxed.points[pair_index(c.i, c.j, m.n_links)]
+        assert pg.point_separation(geo, c.velocity_point, scale=L, origin=O) <= SEP_TOL, c.pair
+
+
+def _assert_two_freedom(a):
+    """Two inputs: primary centers agree; the others come from the velocity analysis, on their ratio lines."""
+    m, L, O = a.mechanism, a.mechanism.scale, a.mechanism.centre
+    assert a.passed
+    assert a.velocity.mobility == a.velocity.gruebler == 2 and len(a.velocity.driver_joints) == 2
+    for c in a.centers:
+        assert c.point is not None, c.pair
+        if c.method == "velocity":
+            # not reachable by the theorem: moves along a line as the input ratio
+            # changes (Foster and Pennock, ASME IDETC 2004, abstract, references.md)
+            assert c.ratio_line is not None, c.pair
+            assert pg.point_on_line(c.point, c.ratio_line, scale=L, origin=O) <= 1e-9, c.pair
+            assert "ratio of the input rates" in c.derivation
+        else:
+            assert c.method == "joint", (c.pair, c.method)
+            assert c.check is not None and c.check.passed
+            assert pg.point_separation(c.point, c.velocity_point, scale=L, origin=O) <= SEP_TOL
+
+
+def _assert_analysis_sound(kind, a):
+    if kind in EIGHT_BARS:
+        _assert_eight_bar_complete(a)
+    elif kind in TWO_FREEDOM:
+        _assert_two_freedom(a)
+    else:
+        _assert_methods_agree(a)
+        # every center of these topologies is reached by the theorem
+        assert all(c.method in ("joint", "three-centers") for c in a.centers)
+
+
 def _sized_unit(p, scale):
     v = np.array([p[0] / scale, p[1] / scale, p[2]], dtype=float)
     return v / np.linalg.norm(v)
@@ -126,7 +205,7 @@ def _collinearity(p, q, r, scale) -> float:
 
 
 def _similar(m: Mechanism, angle: float, shift, s: float = 1.0) -> Mechanism:
-    """The same mechanism drawn after x -> s R(angle) x + shift (directions only rotate)."""
+    """The same mechanism drawn after x -> s R(angle) x + shift (directions only rotate), every joint kind."""
     c, sn = math.cos(angle), math.sin(angle)
 
     def pt(p):
@@ -139,9 +218,16 @@ def _similar(m: Mechanism, angle: float, shift, s: float = 1.0) -> Mechanism:
     joints = []
     for j in m.joints:
         if isinstance(j, Prismatic):
-            joints.append(replace(j, at=pt(j.at), axis=vec(j.axis)))
-        elif isinstance(j, Revolute):
+            joints.append(replace(j, at=pt(j.at), axis=vec(j.axis), axis_deg=None))
+        elif isinstance(j, PinInSlot):
+            joints.append(replace(j, at=pt(j.at), slot=vec(j.slot), slot_deg=None))
+        elif isinstance(j, CamContact):
+            joints.append(replace(j, at=pt(j.at), normal=vec(j.normal), normal_deg=None))
+        elif isinstance(j, (Revolute, RollingContact)):
             joints.append(replace(j, at=pt(j.at)))
+        elif isinstance(j, GearMesh):
+            radii = None if j.radii is None else tuple(s * r for r in j.radii)
+            joints.append(replace(j, centers=tuple(pt(x) for x in j.centers), pitch_point=pt(j.pitch_point), radii=radii))
         else:  # pragma: no cover - the generators make only these kinds
             raise TypeError(j.kind)
     return replace(m, joints=tuple(joints))
@@ -152,11 +238,18 @@ def _similarity_matrix(angle: float, shift, s: float = 1.0) -> np.ndarray:
     return np.array([[s * c, -s * sn, shift[0]], [s * sn, s * c, shift[1]], [0.0, 0.0, 1.0]])
 
 
-def _assert_same_centers(expected: dict, got: dict, scale: float, tol: float = SEP_TOL):
+def _assert_same_centers(expected: dict, got: dict, scale: float, tol: float = SEP_TOL, *, origin=(0.0, 0.0)):
+    """Same centers, compared at the drawing scale about ``origin`` (give the drawing centre).
+
+    About a far origin a center far from the drawing would be compared by its
+    direction seen from there, which its (ill-conditioned) position along its
+    two nearly parallel lines changes; about the drawing centre that position
+    hardly matters, as for every far center (see the module docstring).
+    """
     assert expected.keys() == got.keys()
     for key, p in expected.items():
         q = got[key]
-        sep = pg.point_separation(p, q, scale=scale)
+        sep = pg.point_separation(p, q, scale=scale, origin=origin)
         assert sep <= tol, f"center {sorted(key)}: {p} vs {q}, separation {sep:.3g}"
 
 
@@ -168,14 +261,42 @@ def _assert_same_omegas(expected: dict, got: dict):
 
 
 # ------------------------------------------------------------ the two methods
-@PROPERTY
-@given(kind=kinds, seed=seeds)
+@per_kind
+@PER_KIND
+@given(seed=seeds)
 def test_both_methods_agree(kind, seed):
     m = _mechanism(kind, seed)
     a = _analyse(m)
-    _assert_methods_agree(a)
-    # every center of these topologies is reached by the theorem
-    assert all(c.method in ("joint", "three-centers") for c in a.centers)
+    _assert_analysis_sound(kind, a)
+
+
+@PER_KIND
+@given(seed=seeds, r1=st.floats(-3.0, 3.0), r2=st.floats(-3.0, 3.0))
+def test_two_freedom_centers_stay_on_their_ratio_lines(seed, r1, r2):
+    # In a two-freedom linkage a secondary center moves along a straight line as
+    # the ratio of the input rates changes (Foster and Pennock, ASME IDETC 2004,
+    # abstract, via /work/shared/references.md); the line is the one through
+    # its positions under each input alone.
+    if max(abs(r1), abs(r2)) < 1e-3:
+        reject()
+    m = _mechanism("five-bar-2dof", seed)
+    a = _analyse(m)
+    moving = [c for c in a.centers if c.method == "velocity"]
+    # the five pins are the only centers the theorem reaches from the joints
+    # (two inputs: the other five depend on the ratio; references.md)
+    assert len(moving) == m.n_pairs - len(m.joints) == 5
+    L, O = m.scale, m.centre
+    alone = [_analyse(m.with_drivers([Driver("O2", 1.0), Driver("O5", 0.0)])),
+             _analyse(m.with_drivers([Driver("O2", 0.0), Driver("O5", 1.0)]))]
+    other = _analyse(m.with_drivers([Driver("O2", r1), Driver("O5", r2)]))
+    for c in moving:
+        for b in alone + [other]:
+            d = b.center(*(m.link_names[k] for k in (c.i, c.j)))
+            if d.relative_rest or _relative_motion(b, d) < 1e-6:
+                continue  # the pole is undefined (or ill-conditioned) at this ratio
+            assert d.method == "velocity"
+            assert pg.point_on_line(d.point, c.ratio_line, scale=L, origin=O) <= 1e-9, (c.pair, r1, r2)
+    assert other.passed
 
 
 @FEW
@@ -212,8 +333,9 @@ def test_both_methods_agree_on_drawn_coordinates(o2, a, b, o4, slider, axis_deg)
 
 
 # ------------------------------------------------------------------ the theorem
-@PROPERTY
-@given(kind=kinds, seed=seeds)
+@per_kind
+@PER_KIND
+@given(seed=seeds)
 def test_every_triple_of_centers_is_collinear(kind, seed):
     # Aronhold-Kennedy: the three relative centers of any three links lie on
     # one line, centers at infinity included (common practice, no source)
@@ -221,38 +343,68 @@ def test_every_triple_of_centers_is_collinear(kind, seed):
     a = _analyse(m)
     L, n = m.scale, m.n_links
     tc = a.three_centers
+    checked = 0
     for i, j, k in combinations(range(n), 3):
+        # the theorem's own points, where it reached all three
         geo = (tc.point(i, j), tc.point(i, k), tc.point(j, k))
-        assert _collinearity(*geo, L) <= COLLINEAR_TOL, (i, j, k)
+        if all(p is not None for p in geo):
+            assert _collinearity(*geo, L) <= COLLINEAR_TOL, (i, j, k)
+            checked += 1
+        # the final table (relaxation or velocity centers included)
+        final = tuple(a.center(m.link_names[x], m.link_names[y]).point for x, y in ((i, j), (i, k), (j, k)))
+        assert _collinearity(*final, L) <= COLLINEAR_TOL, (i, j, k)
         vel = (a.velocity.pole(i, j), a.velocity.pole(i, k), a.velocity.pole(j, k))
         assert _collinearity(*vel, L) <= COLLINEAR_TOL, (i, j, k)
+    if kind in DETERMINATE:
+        assert checked == n * (n - 1) * (n - 2) // 6
     assert a.crosscheck.n_triples == n * (n - 1) * (n - 2) // 6
     assert a.crosscheck.max_collinearity <= COLLINEAR_TOL
 
 
-@PROPERTY
-@given(kind=kinds, seed=seeds)
+@per_kind
+@PER_KIND
+@given(seed=seeds)
 def test_number_of_centers_and_primary_centers(kind, seed):
     m = _mechanism(kind, seed)
     a = _analyse(m)
-    n, L = m.n_links, m.scale
+    n, L, O = m.n_links, m.scale, m.centre
     # n(n-1)/2 relative centers, one per pair (common practice, no source)
     assert len(a.centers) == n * (n - 1) // 2 == m.n_pairs
     assert len({frozenset((c.i, c.j)) for c in a.centers}) == len(a.centers)
-    assert locate_centers(m).unresolved == []
+    unresolved = locate_centers(m).unresolved
+    if kind in DETERMINATE:
+        assert unresolved == []
+    else:
+        # the theorem alone leaves 18 (double butterfly) and 16 (single flier)
+        # centers (references.md, "Indeterminate linkages" [computed there]); in
+        # the two-freedom five-bar all five secondary centers (references.md)
+        assert len(unresolved) == {"double-butterfly": 18, "single-flier": 16, "five-bar-2dof": 5}[kind]
     for j in m.joints:
         c = a.center(*j.links)
-        if isinstance(j, Revolute):
-            # a pin is the center of the two links it joins (common practice, no source)
+        if isinstance(j, (Revolute, RollingContact)):
+            # a pin is the center of the two links it joins; rolling without slip:
+            # the contact point (common practice, no source)
             expected = pg.point(*j.at)
-            assert c.method == "joint"
-        else:
+        elif isinstance(j, GearMesh) and j.carrier is not None:
+            # gears whose centres one link holds: their pitch circles roll, the
+            # center is the pitch point (common practice, no source)
+            expected = pg.point(*j.pitch_point)
+        elif isinstance(j, Prismatic):
             # a slider's center is at infinity, perpendicular to the guide
             # (common practice, no source)
-            assert isinstance(j, Prismatic)
             ux, uy = j.axis
             expected = pg.direction(-uy, ux)
             assert c.cartesian(L) is None
+        else:
+            # sliding contact (cam, pin in a slot): the center is on the common
+            # normal at the contact (references.md, facts of the trade)
+            assert isinstance(j, (CamContact, PinInSlot))
+            line = j.primary((0.0, 0.0, 0.0), (0.0, 0.0, 0.0)).line
+            assert c.method == "three-centers"
+            assert pg.point_on_line(c.point, line, scale=L, origin=O) <= 1e-12
+            assert pg.point_on_line(c.velocity_point, line, scale=L, origin=O) <= SEP_TOL
+            continue
+        assert c.method == "joint"
         assert pg.point_separation(c.point, expected, scale=L) <= 1e-12
         assert pg.point_separation(c.velocity_point, expected, scale=L) <= SEP_TOL
 
@@ -287,9 +439,9 @@ def test_parallelogram_has_centers_at_infinity(o2, crank, base):
 
 
 # ------------------------------------------------------------------ invariances
-@PROPERTY
+@per_kind
+@PER_KIND
 @given(
-    kind=kinds,
     seed=seeds,
     angle=st.floats(-math.pi, math.pi),
     # up to a hundred thousand drawing sizes away (the constructions are made
@@ -297,21 +449,41 @@ def test_parallelogram_has_centers_at_infinity(o2, crank, base):
     shift=st.tuples(st.floats(-1e7, 1e7), st.floats(-1e7, 1e7)),
 )
 def test_rigid_motion_moves_centers_and_keeps_angular_velocities(kind, seed, angle, shift):
-    m = _mechanism(kind, seed)
+    m0 = _mechanism(kind, seed)
+    if kind in EIGHT_BARS:
+        # The relaxation method loses precision with the distance from the
+        # origin (see the strict expected failures test_far_from_origin_relaxation_*
+        # at the end): its centers are held to SEP_TOL up to a thousand
+        # drawing sizes away.
+        far = max(abs(shift[0]), abs(shift[1]))
+        if far > 1e3 * m0.scale:
+            shift = (shift[0] * 1e3 * m0.scale / far, shift[1] * 1e3 * m0.scale / far)
+    moved = _similar(m0, angle, shift)
+    # Far from the origin the moved coordinates are rounded (to about 2e-9 at
+    # 1e7), so the moved drawing is not exactly the drawing moved: a center made
+    # by a chain of constructions (an eight-bar's relaxation) moves with that
+    # rounding times its condition.  The reference is therefore the moved
+    # drawing moved back: the same rounded linkage (the shift is undone
+    # exactly, the rotation at the drawing's own size), near the drawn one.
+    m = _similar(_similar(moved, 0.0, (-shift[0], -shift[1])), -angle, (0.0, 0.0))
+    for j0, j in zip(m0.joints, m.joints):
+        for p, q in zip(j0.reference_points(), j.reference_points()):
+            assert math.dist(p, q) <= 1e-6 * m0.scale
     a = _analyse(m)
-    moved = _similar(m, angle, shift)
     b = _analyse(moved)
     H = _similarity_matrix(angle, shift)
     # finite centers move with the drawing; directions at infinity rotate
     # (w = 0 is kept by H, whose last row is (0, 0, 1))
     expected = {k: tuple(H @ np.asarray(p)) for k, p in _centers_by_name(a).items()}
-    _assert_same_centers(expected, _centers_by_name(b), moved.scale)
+    _assert_same_centers(expected, _centers_by_name(b), moved.scale, origin=moved.centre)
     _assert_same_omegas(_omegas_by_name(a), _omegas_by_name(b))
     assert b.passed
+    assert [c.method for c in b.centers] == [c.method for c in a.centers]
 
 
-@PROPERTY
-@given(kind=kinds, seed=seeds, s=st.floats(1e-3, 1e3))
+@per_kind
+@PER_KIND
+@given(seed=seeds, s=st.floats(1e-3, 1e3))
 def test_uniform_scaling_scales_centers_and_keeps_angular_velocities(kind, seed, s):
     m = _mechanism(kind, seed)
     a = _analyse(m)
@@ -319,20 +491,32 @@ def test_uniform_scaling_scales_centers_and_keeps_angular_velocities(kind, seed,
     b = _analyse(scaled)
     assert math.isclose(scaled.scale, s * m.scale, rel_tol=1e-12)
     expected = {k: (s * p[0], s * p[1], p[2]) for k, p in _centers_by_name(a).items()}
-    _assert_same_centers(expected, _centers_by_name(b), scaled.scale)
+    _assert_same_centers(expected, _centers_by_name(b), scaled.scale, origin=scaled.centre)
     for key, p in _centers_by_name(a).items():
         ca = pg.to_cartesian(p, scale=m.scale, tol=1e-6)
         cb = pg.to_cartesian(_centers_by_name(b)[key], scale=scaled.scale, tol=1e-6)
         if ca is not None and cb is not None and math.hypot(*ca) < 1e3 * m.scale:
             assert math.dist((s * ca[0], s * ca[1]), cb) <= 1e-7 * scaled.scale
     _assert_same_omegas(_omegas_by_name(a), _omegas_by_name(b))
+    assert b.passed
+    assert [c.method for c in b.centers] == [c.method for c in a.centers]
 
 
 name_chars = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789_"
 
 
-@PROPERTY
-@given(kind=kinds, seed=seeds, data=st.data())
+def _flip(j):
+    """The same joint with its two links swapped (a gear's centres go with its links)."""
+    x, y = j.links
+    if isinstance(j, GearMesh):
+        radii = None if j.radii is None else (j.radii[1], j.radii[0])
+        return replace(j, links=(y, x), centers=(j.centers[1], j.centers[0]), radii=radii)
+    return replace(j, links=(y, x))
+
+
+@per_kind
+@PER_KIND
+@given(seed=seeds, data=st.data())
 def test_renaming_and_reordering_change_nothing(kind, seed, data):
     m = _mechanism(kind, seed)
     a = _analyse(m)
@@ -355,24 +539,33 @@ def test_renaming_and_reordering_change_nothing(kind, seed, data):
     joints, flipped = [], set()
     for k in joint_order:
         j = m.joints[k]
-        x, y = (rename[v] for v in j.links)
         if flips[k]:
             # the same joint with its links swapped; a driver across it then
             # reads the opposite sign
-            x, y = y, x
+            j = _flip(j)
             flipped.add(j.name)
-        joints.append(replace(j, links=(x, y)))
+        x, y = (rename[v] for v in j.links)
+        # a gear's carrier is found again by the model, under the new names
+        joints.append(replace(j, links=(x, y), carrier=None) if isinstance(j, GearMesh) else replace(j, links=(x, y)))
     drivers = tuple(Driver(d.joint, -d.rate if d.joint in flipped else d.rate) for d in m.drivers)
     r = Mechanism(links=links, joints=tuple(joints), drivers=drivers, name=m.name, unit=m.unit)
     b = _analyse(r)
 
     back = {v: k for k, v in rename.items()}
+    for j in m.joints:
+        if isinstance(j, GearMesh):
+            assert r.joint_by_name[j.name].carrier == (None if j.carrier is None else rename[j.carrier])
     got = {frozenset(back[x] for x in key): p for key, p in _centers_by_name(b).items()}
-    _assert_same_centers(_centers_by_name(a), got, m.scale)
+    _assert_same_centers(_centers_by_name(a), got, m.scale, origin=m.centre)
     _assert_same_omegas(_omegas_by_name(a), {back[k]: w for k, w in _omegas_by_name(b).items()})
     for c in b.centers:
         ca = a.center(back[r.link_names[c.i]], back[r.link_names[c.j]])
-        assert c.method == ca.method
+        if ca.method in ("relaxation", "velocity") and kind in EIGHT_BARS:
+            # which relaxation runs first follows the link order; the centers
+            # the theorem leaves may be found either way
+            assert c.method in ("relaxation", "velocity")
+        else:
+            assert c.method == ca.method
     assert b.passed
 
 
@@ -453,3 +646,109 @@ def test_far_from_origin_distinct_centers_are_not_taken_as_coincident():
     errors, far = _true_errors(1e8, 0.01)
     assert far.center("frame", "L2").method == "three-centers", far.center("frame", "L2").derivation
     assert max(errors.values()) <= 1e-6
+
+
+#: Joint kinds each generated topology is made of.
+_KINDS_OF = {
+    "four-bar": {"revolute"},
+    "slider-crank": {"revolute", "prismatic"},
+    "watt": {"revolute"},
+    "stephenson": {"revolute"},
+    "ladder": {"revolute"},
+    "cam-rocking": {"revolute", "cam"},
+    "cam-translating": {"revolute", "cam", "prismatic"},
+    "pin-in-slot": {"revolute", "pin_in_slot"},
+    "geared": {"revolute", "gear"},
+    "planetary": {"revolute", "gear"},
+    "rolling-track": {"revolute", "rolling"},
+    "rolling-wheel": {"revolute", "rolling"},
+    "five-bar-2dof": {"revolute"},
+    "double-butterfly": {"revolute"},
+    "single-flier": {"revolute"},
+}
+
+
+@pytest.mark.parametrize("kind", ALL_KINDS)
+@pytest.mark.parametrize("seed", range(3))
+def test_generated_topologies_have_their_documented_structure(kind, seed):
+    m = _mechanism(kind, seed)
+    assert {j.kind for j in m.joints} == _KINDS_OF[kind]
+    # Gruebler-Kutzbach M = 3(n-1) - 2 j1 - j2 (references.md, facts of the trade),
+    # and the same at the drawn position by the rank of the velocity equations
+    expected = 2 if kind in TWO_FREEDOM else 1
+    assert gruebler_mobility(m) == numerical_mobility(m)[0] == expected == len(m.drivers)
+    gears = [j for j in m.joints if isinstance(j, GearMesh)]
+    if kind == "geared":
+        assert [g.carrier for g in gears] == ["frame"]  # both gear centres pinned to the frame
+    if kind == "planetary":
+        assert [g.carrier for g in gears] == ["L1"]  # both gear centres on the driven arm
+        assert gears[0].links[0] == "frame"  # the frame's gear meshes with the planet
+    if kind in EIGHT_BARS:
+        assert classify_chain(m)[0] == kind.replace("-", " ")
+    if kind == "cam-translating":
+        (s,) = (j for j in m.joints if isinstance(j, Prismatic))
+        (k,) = (j for j in m.joints if isinstance(j, CamContact))
+        assert abs(float(np.dot(s.axis, k.normal))) >= 0.1  # the normal is not square to the guide
+
+
+def test_random_mechanism_names_every_topology():
+    with pytest.raises(KeyError, match="unknown topology 'nine-bar'; known: four-bar"):
+        random_mechanism("nine-bar", np.random.default_rng(0))
+    for kind in ("cam-rocking", "five-bar-2dof", "single-flier"):
+        assert random_mechanism(kind, np.random.default_rng(5), rate=2.5).drivers[0].rate == 2.5
+
+
+# ------------------------------ far from the origin: the relaxation method (open defects)
+def _far_eight_bar(kind: str, seed: int, k: float, offset: float):
+    """A generated eight-bar shrunk by k and moved by (offset, offset), and its analysis near the origin.
+
+    The reference is the moved drawing moved back (exactly: the shift is
+    undone without rounding), so both analyses see the same linkage.
+    """
+    moved = _similar(_similar(_mechanism(kind, seed), 0.0, (0.0, 0.0), k), 0.0, (offset, offset))
+    near = _similar(moved, 0.0, (-offset, -offset))
+    return moved, analyse(near)
+
+
+def _far_errors(moved, ref, offset):
+    out = {}
+    for cr, cf in zip(ref.centers, analyse(moved).centers):
+        out[cf.pair] = (
+            pg.point_separation(pg.translate_point(cr.point, offset, offset), cf.point, scale=moved.scale, origin=moved.centre),
+            pg.point_separation(pg.translate_point(cr.point, offset, offset), cf.velocity_point, scale=moved.scale, origin=moved.centre),
+        )
+    return out
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "core defect: an indeterminate eight-bar drawn 9e6 drawing sizes from the origin (relative size 1.1e-7, "
+        "accepted by the model) gets centers from the relaxation method that are O(1) wrong, and analysis.passed is "
+        "False, while its velocity poles stay within 3e-9: a relaxation line and a three-centers locus that are one "
+        "line are taken as crossing (separations 1.2e-9 and 1.8e-9 against the coincidence tolerance 1e-9, about "
+        "the rounding of the far coordinates) and met, for T4-B3 and T2-T3"
+    ),
+)
+def test_far_from_origin_relaxation_keeps_the_crosscheck():
+    moved, ref = _far_eight_bar("double-butterfly", 3, 0.01, 1e7)
+    assert ref.passed
+    errors = _far_errors(moved, ref, 1e7)
+    assert max(v for _, v in errors.values()) <= 1e-7  # the velocity analysis keeps its digits
+    assert max(g for g, _ in errors.values()) <= 1e-6, errors
+    assert analyse(moved).passed
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "core defect: the relaxation method's centers lose precision with the distance from the origin (probably "
+        "because its intermediate centers are rounded to the far coordinates' grid): a single-flier eight-bar moved by 1.2e5 drawing sizes has centers "
+        "3.6e-8 off (velocity poles 8e-11), above the 1e-8 of a well-conditioned center"
+    ),
+)
+def test_far_from_origin_relaxation_keeps_its_precision():
+    moved, ref = _far_eight_bar("single-flier", 9811, 1.0, 1e7)
+    errors = _far_errors(moved, ref, 1e7)
+    assert max(v for _, v in errors.values()) <= 1e-9
+    assert max(g for g, _ in errors.values()) <= SEP_TOL, errors
