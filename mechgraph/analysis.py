@@ -8,6 +8,7 @@ the cross-check of both.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -366,7 +367,7 @@ def analyse(
     else:
         agree_eff = agree_tol
     tc = locate_centers(mech, poses, tol=tol, arithmetic=ar)
-    relax = _relaxation(mech, poses, tol) if geometric and is_float and tc.unresolved else None
+    relax = _relaxation(mech, poses, tol, agree_tol) if geometric and is_float and tc.unresolved else None
     vel = analyse_velocities(mech, poses, rank_tol=rank_tol, rest_tol=rest_tol, arithmetic=kind) if velocities else None
     L, O = mech.scale, mech.centre
     n = mech.n_links
@@ -390,7 +391,8 @@ def analyse(
         geo = tc.points[q]
         d = tc.derivations[q]
         relaxed_text = None
-        if geo is None and relax is not None and relax.points[q] is not None:
+        at_rest_here = vel is not None and (bool(rest_all[q]) if is_float else vel.is_relative_rest(i, j))
+        if geo is None and relax is not None and relax.points[q] is not None and not at_rest_here:
             # not reached by the theorem from the joints: found by the relaxation method
             geo, d = relax.points[q], relax.three_centers.derivations[q]
             relaxed_text = relax.derivations[q]
@@ -416,8 +418,9 @@ def analyse(
                     gap = kind.point_gap(geo, vp, scale=L, origin=O)
                     check = PairCheck(gap, check.distance, check.angle_deg, gap <= agree_eff)
                 compared += 1
-                if check.separation > worst_sep or worst_pair is None:
-                    worst_sep, worst_pair = max(worst_sep, check.separation), (i, j)
+                sep = check.separation if check.separation == check.separation else math.inf  # NaN fails
+                if sep > worst_sep or worst_pair is None:
+                    worst_sep, worst_pair = max(worst_sep, sep), (i, j)
             elif rest:
                 text += "; the velocity method is indeterminate here (the two links are at relative rest)"
         elif vp is not None:
@@ -443,7 +446,8 @@ def analyse(
                 else "not reachable by the three-centers theorem; run the velocity analysis for it"
             )
         fpoint = as_float(point)
-        if point is not None:
+        if point is not None and not rest:
+            # the theorem holds for poles; a pair at relative rest has none, so its triples are not checked
             final[q] = fpoint
             kind_final[q] = point
         centers.append(
@@ -495,16 +499,22 @@ def analyse(
     )
 
 
-def _relaxation(mech: Mechanism, poses, tol: float):
-    """The relaxation method's result for a single-freedom linkage the theorem leaves incomplete, else None."""
+def _relaxation(mech: Mechanism, poses, tol: float, agree_tol: float):
+    """The relaxation method's result for a single-freedom linkage the theorem leaves incomplete, else None.
+
+    A result whose own lines do not pass through the centers they located
+    (``max_line_residual`` above ``agree_tol``: a degenerate relaxation, e.g.
+    at a pause) is not used; the velocity analysis then stands alone.
+    """
     from .indeterminate import RelaxationError, counted_freedoms, locate_by_relaxation
 
     try:
         if counted_freedoms(mech) != 1:
             return None
-        return locate_by_relaxation(mech, poses, tol=tol)
+        res = locate_by_relaxation(mech, poses, tol=tol)
     except RelaxationError:
         return None
+    return res if res.max_line_residual <= agree_tol else None
 
 
 def _kind_collinearity(ar, pts, n: int, L, O):

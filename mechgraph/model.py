@@ -58,11 +58,12 @@ LENGTH_UNITS = ("mm", "cm", "m", "in", "ft")
 #: spans a million kilometres in any unit).
 MAX_COORDINATE = 1e9
 
-#: Smallest accepted drawing size relative to the largest coordinate: below it,
-#: double precision keeps fewer than about eight digits of the drawing's own
-#: geometry (2.2e-16 / 1e-8), too few for the 1e-6 cross-check after the
-#: constructions' own error growth.
-MIN_RELATIVE_SIZE = 1e-8
+#: Smallest accepted drawing size relative to the largest coordinate: a 1 mm
+#: mechanism may lie up to 1 km from the origin.  Farther, double precision keeps
+#: fewer than about ten digits of the drawing's own geometry (2.2e-16 / 1e-6),
+#: and the longer constructions (relaxation of indeterminate chains) lose the
+#: rest: such coordinates mean a misplaced origin.
+MIN_RELATIVE_SIZE = 1e-6
 
 #: Smallest accepted drawing size in any unit: squares of smaller lengths
 #: underflow double precision.

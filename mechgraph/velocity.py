@@ -695,7 +695,7 @@ def analyse_velocities(
         j = mech.joint_by_name[d.joint]
         a, b = (mech.index[x] for x in j.links)
         rowsD += _scatter([j.driver_row(frame[a], frame[b], ar)], a, b, col, ncols, L, ar)
-    if len(drivers) != mobility:
+    if len(drivers) != mobility or mobility <= 0:
         if mobility > gm >= len(drivers) >= 1:
             # as many drivers as the count asks, but the position leaves more freedom: a change point
             M = ar.matrix(rowsA + rowsD, ncols)

@@ -242,17 +242,6 @@ _PAUSE = Degenerate(
     undefined=("frame-L4",),  # at relative rest, and the theorem's two lines through C coincide
     methods={"frame-L4": "unresolved", "frame-L2": "three-centers"},
     omegas={"L4": 0.0, "L5": 0.0},
-    bugs={
-        "centers": (
-            "analyse() runs the relaxation method because the theorem leaves frame-L4 (frame-L2 and L2-L4 coincide "
-            "at C), and reports frame-L4 'by relaxation' at C = (0, 100): a pair at relative rest given a point, "
-            "and one off the theorem's own line for that pair (frame-L5/L4-L5, through O6 and D)"
-        ),
-        "passed": (
-            "the relaxation point for frame-L4 makes the triple frame-L4-L5 fail the collinearity cross-check "
-            "(residual 0.11), though the three links are mutually at rest"
-        ),
-    },
 )
 
 CATALOGUE: list[Degenerate] = [
@@ -279,12 +268,6 @@ CATALOGUE: list[Degenerate] = [
         methods={"L1-L3": "coincident"},
         relative_rest=frozenset({"L1-L2", "L1-L3", "L2-L3"}),
         omegas={"L1": 1.0, "L2": 1.0, "L3": 1.0},
-        bugs={
-            "passed": (
-                "the collinearity cross-check takes the triple L1-L2-L3, whose three pairs are at relative rest "
-                "(pins A, B and the pivot, not collinear), and fails (residual 0.23)"
-            )
-        },
     ),
     Degenerate(
         name="parallel links: crank and rocker parallel, not equal",
@@ -410,13 +393,6 @@ CATALOGUE: list[Degenerate] = [
         mobility=0,
         raises=DriverError,
         match=(r"'truss' has no freedom at this position: it is a structure, nothing moves",),
-        bugs={
-            "raises": (
-                "velocity._driver_count_error has the message for an undriven structure, but it is only reached when "
-                "the driver count differs from the mobility (0 == 0 here); the analysis runs with every link at rest "
-                "and its collinearity cross-check fails on the triangle's three pins (residual 0.31)"
-            )
-        },
     ),
 ]
 
