@@ -1424,7 +1424,7 @@ def check_hand(analysis: Analysis, hand: HandCalculation) -> HandReport:
         e = base[p]
         checks = []
         for loc in loci:
-            loc = replace(loc, line=tuple(to_float(v) for v in loc.line))
+            loc = replace(loc, raw_line=tuple(to_float(v) for v in loc.line), offset=(0.0, 0.0))
             checks.append(_line_check(mech, geo, loc, mine, e["tol"], e["atol"], status, user_place))
         if coincident is not None:
             for other in coincident:

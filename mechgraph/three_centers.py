@@ -25,7 +25,8 @@ each through which two centers, via which third link.
 from __future__ import annotations
 
 from collections import deque
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
+from functools import cached_property
 from typing import Iterable, Sequence
 
 from . import projective as pg
@@ -71,8 +72,9 @@ class Locus:
 
     Attributes
     ----------
-    line : tuple
-        Homogeneous line.
+    raw_line : tuple
+        The homogeneous line in the solver's working coordinates, about
+        ``offset`` (:attr:`line` gives it in the caller's coordinates).
     through : tuple of two pairs, or None
         For a three-centers line: the two known pairs whose centers it joins.
     via : int or None
@@ -81,13 +83,22 @@ class Locus:
         For a contact normal: the joint that gives it.
     note : str
         The joint's own words (contact normals only).
+    offset : tuple
+        Where the working origin lies in the caller's coordinates.
     """
 
-    line: tuple
+    raw_line: tuple
     through: tuple[tuple[int, int], tuple[int, int]] | None = None
     via: int | None = None
     joint: str | None = None
     note: str = ""
+    offset: tuple = field(default=(0.0, 0.0), compare=False)
+
+    @cached_property
+    def line(self) -> tuple:
+        """The homogeneous line in the caller's coordinates."""
+        ox, oy = self.offset
+        return self.raw_line if (ox == 0 and oy == 0) else pg.translate_line(self.raw_line, ox, oy)
 
 
 @dataclass(frozen=True)
@@ -285,12 +296,12 @@ def solve_three_centers(
             seen_through[q].add(key)
         best, best_s = None, 0.0
         for other in loci[q]:
-            s = separation(other.line, loc.line, scale=scale)
+            s = separation(other.raw_line, loc.raw_line, scale=scale)
             if s > best_s:
                 best, best_s = other, s
         loci[q].append(loc)
         if best is not None and best_s > limit:
-            p = pg.meet(best.line, loc.line)
+            p = pg.meet(best.raw_line, loc.raw_line)
             locate(i, j, p, Derivation("three-centers", loci=(best, loc), crossing=best_s))
 
     ox, oy = ar.num(origin[0]), ar.num(origin[1])
@@ -303,7 +314,7 @@ def solve_three_centers(
     for i, j, line, joint, note in line_seeds:
         check(i, j)
         a, b = (i, j) if i < j else (j, i)
-        add_locus(a, b, Locus(pg.translate_line(line, -ox, -oy), joint=joint, note=note))
+        add_locus(a, b, Locus(pg.translate_line(line, -ox, -oy), joint=joint, note=note, offset=(ox, oy)))
 
     while queue:
         i, j = queue.popleft()
@@ -325,7 +336,9 @@ def solve_three_centers(
                     if derivs[pid[i][j]].method in PINNED and derivs[pid[shared][k]].method in PINNED:
                         locate(target[0], target[1], pij, Derivation("coincident", through=((i, j), kp)))
                     continue
-                add_locus(target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared))
+                add_locus(
+                    target[0], target[1], Locus(pg.join(pij, known_pt), through=((i, j), kp), via=shared, offset=(ox, oy))
+                )
 
     # back from coordinates about the drawing centre to the caller's
     def back_point(q, p):
@@ -333,27 +346,10 @@ def solve_three_centers(
             return None
         return given[q] if q in given else norm(pg.translate_point(p, ox, oy), scale=scale, origin=origin)
 
-    moved: dict[int, Locus] = {}
-
-    def back_locus(loc: Locus) -> Locus:
-        got = moved.get(id(loc))
-        if got is None:
-            got = Locus(pg.translate_line(loc.line, ox, oy), loc.through, loc.via, loc.joint, loc.note)
-            moved[id(loc)] = got
-        return got
-
-    def back_derivation(d):
-        if d is None or not d.loci:
-            return d
-        return Derivation(d.method, d.joint, d.note, tuple(back_locus(x) for x in d.loci), d.crossing, d.through)
-
     return ThreeCentersResult(
         n_links=n,
         points=tuple(back_point(q, p) for q, p in enumerate(points)),
-        derivations=tuple(back_derivation(d) for d in derivs),
-        loci=tuple(
-            tuple(back_locus(x) for x in ls) if points[q] is None else tuple(back_locus(x) for x in derivs[q].loci)
-            for q, ls in enumerate(loci)
-        ),
+        derivations=tuple(derivs),
+        loci=tuple(tuple(ls) if points[q] is None else derivs[q].loci for q, ls in enumerate(loci)),
         order=tuple(order),
     )
