@@ -388,24 +388,19 @@ def analyse(
         return None if t is None else (t if is_float else pg.normalized_point([kind.to_float(c) for c in t], scale=L, origin=O))
 
     for q, (i, j) in enumerate(all_pairs):
+        vp, rest = None, False
+        if vel is not None:
+            rest = bool(rest_all[q]) if is_float else vel.is_relative_rest(i, j)
+            if not rest:
+                pole = poles[q] if is_float else vel.kind_pole(i, j)
+                vp = kind.normalize_point(pole, scale=L, origin=O)
         geo = tc.points[q]
         d = tc.derivations[q]
         relaxed_text = None
-        at_rest_here = vel is not None and (bool(rest_all[q]) if is_float else vel.is_relative_rest(i, j))
-        if geo is None and relax is not None and relax.points[q] is not None and not at_rest_here:
+        if geo is None and relax is not None and relax.points[q] is not None and not rest:
             # not reached by the theorem from the joints: found by the relaxation method
             geo, d = relax.points[q], relax.three_centers.derivations[q]
             relaxed_text = relax.derivations[q]
-        vp, rest = None, False
-        if vel is not None:
-            if is_float:
-                rest = bool(rest_all[q])
-                if not rest:
-                    vp = pg.normalized_point(poles[q], scale=L, origin=O)
-            else:
-                rest = vel.is_relative_rest(i, j)
-                if not rest:
-                    vp = kind.normalize_point(vel.kind_pole(i, j), scale=L, origin=O)
         check = None
         if geo is not None:
             if relaxed_text is not None:
