@@ -374,6 +374,12 @@ class PrecisionArithmetic(FloatArithmetic):
         k = min(range(len(s)), key=lambda i: s[i])
         return [V[k, j] for j in range(V.cols)]
 
+    def _svd_solve(self, A, B):
+        """Least-squares solution in full precision by the SVD (rows = unknowns, columns = right-hand sides)."""
+        U, S, V = self.ctx.svd_r(A, full_matrices=False)
+        UtB = U.T * B
+        return [[sum(V[k, i] * UtB[k, c] / S[k] for k in range(len(S))) for c in range(B.cols)] for i in range(A.cols)]
+
     def solve(self, A, B):
         """Solution of the consistent, full-column-rank system A X = B (rows = unknowns).
 
@@ -384,7 +390,7 @@ class PrecisionArithmetic(FloatArithmetic):
         F = _normalise_rows(np.array([[float(A[i, j]) for j in range(A.cols)] for i in range(A.rows)]))
         chosen = _independent_rows(F)
         if len(chosen) < A.cols:
-            raise NumberKindError("the high-precision velocity equations have no unique solution")
+            return self._svd_solve(A, B)  # too close to singular for a row choice in doubles
         S = self.ctx.matrix(A.cols, A.cols)
         R = self.ctx.matrix(A.cols, B.cols)
         for r, i in enumerate(chosen):
@@ -619,10 +625,50 @@ def make_arithmetic(kind: str, mech=None, *, tol: float = 1e-9, digits: int = 50
     raise ValueError(f"arithmetic {kind!r} is not known; use one of {', '.join(KINDS)}")
 
 
-def exact_for(mech) -> ExactArithmetic:
-    """The exact arithmetic of a mechanism: a field holding all its inputs (see :class:`ExactArithmetic`)."""
-    from sympy import Rational, cos, pi, sin, sqrt
+#: Largest degree of number field exact arithmetic builds.  Angles such as 15,
+#: 18, 22.5, 30, 45 or 60 degrees need degree 8 at most; 37.2 degrees needs 40,
+#: which sympy cannot handle in reasonable time.
+MAX_EXACT_DEGREE = 16
 
+
+def exact_for(mech, *, max_degree: int = MAX_EXACT_DEGREE) -> ExactArithmetic:
+    """The exact arithmetic of a mechanism: a field holding all its inputs (see :class:`ExactArithmetic`).
+
+    Raises
+    ------
+    NumberKindError
+        When the field would have a degree above ``max_degree`` (directions at
+        angles without a short closed form): the message says which angles,
+        and points to vectors or the high-precision arithmetic.
+    """
+    from math import lcm
+
+    from sympy import Rational, cos, pi, sin, sqrt, totient
+
+    n_root, radicands, angles = 1, set(), []
+    for j in mech.joints:
+        for _, deg in j.directions():
+            if deg is not None:
+                r = Rational(decimal_text(deg)) / 180
+                n_root = lcm(n_root, 2 * int(r.q))
+                angles.append(deg)
+    for d in mech.drivers:
+        joint = mech.joint_by_name[d.joint]
+        if joint.drive == "sliding":
+            vector, deg = joint.directions()[0]
+            if deg is None:
+                ux, uy = (Rational(decimal_text(c)) for c in vector)
+                rad = ux * ux + uy * uy
+                if not sqrt(rad).is_rational:
+                    radicands.add(rad)
+    degree = int(totient(n_root)) * 2 ** len(radicands)
+    if degree > max_degree:
+        shown = ", ".join(f"{float(a):g}" for a in angles) or "none"
+        raise NumberKindError(
+            f"exact arithmetic would need a number field of degree {degree} (above {max_degree}) for the directions at "
+            f"{shown} degrees and the slider axes' lengths; give such directions as vectors [dx, dy], or use "
+            "--arithmetic precision"
+        )
     numbers, exprs = [], []
     for j in mech.joints:
         for p in j.reference_points():

@@ -11,7 +11,8 @@ Commands::
 Exit codes: 0 success; 1 a check failed (the cross-check, a hand calculation
 that does not hold, or the verification suite); 2 bad input (case file, hand
 file, model, drivers, command line); 3 singular position (dead point, change
-point); 4 an output file cannot be written.  Errors are printed as one message on
+point); 4 an output file cannot be written; 5 an internal error (a defect of
+mechgraph, reported in one line).  Errors are printed as one message on
 standard error, without a traceback.
 """
 
@@ -23,17 +24,18 @@ import sys
 
 from .errors import MechgraphError, OutputError, SingularPositionError
 
-__all__ = ["main", "EXIT_OK", "EXIT_CHECK_FAILED", "EXIT_INPUT", "EXIT_SINGULAR", "EXIT_OUTPUT"]
+__all__ = ["main", "EXIT_OK", "EXIT_CHECK_FAILED", "EXIT_INPUT", "EXIT_SINGULAR", "EXIT_OUTPUT", "EXIT_INTERNAL"]
 
 EXIT_OK = 0
 EXIT_CHECK_FAILED = 1
 EXIT_INPUT = 2
 EXIT_SINGULAR = 3
 EXIT_OUTPUT = 4
+EXIT_INTERNAL = 5
 
 _EPILOG = (
     "exit codes: 0 success, 1 a check failed (cross-check, hand calculation, verification suite), 2 bad input, "
-    "3 singular position (dead point), "
+    "3 singular position (dead point), 5 internal error, "
     "4 output cannot be written. Kinematic results only; strength, guarding and safety follow local codes "
     "and licensed engineering practice."
 )
@@ -226,6 +228,9 @@ def main(argv=None) -> int:
         return EXIT_INPUT
     except KeyboardInterrupt:  # pragma: no cover - interactive
         return 130
+    except Exception as e:  # a defect of mechgraph's own: say so in one line, no traceback
+        print(f"mechgraph: internal error, please report it with the input: {type(e).__name__}: {e}", file=sys.stderr)
+        return EXIT_INTERNAL
 
 
 if __name__ == "__main__":  # pragma: no cover

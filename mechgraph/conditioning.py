@@ -185,16 +185,25 @@ class Conditioning:
         return next(c for c in self.centers if c.pair == pair)
 
 
+#: A center farther than this many drawing sizes from the drawing centre is
+#: judged by its direction only (seen from the centre): small drawing errors can
+#: move such a center anywhere far along that direction, on either side.
+FAR_SIZES = 1e3
+
+
 def _positions(a: Analysis, L: float):
-    """Per center: ('finite', x, y) or ('infinite', angle) or None."""
+    """Per center: ('finite', x, y), or ('infinite', angle seen from the drawing centre), or None."""
     out = []
+    cx, cy = a.mechanism.centre
     for c in a.centers:
         if c.point is None:
             out.append(None)
             continue
         xy = c.cartesian(L)
-        if xy is not None:
+        if xy is not None and math.hypot(xy[0] - cx, xy[1] - cy) <= FAR_SIZES * L:
             out.append(("finite", xy[0], xy[1]))
+        elif xy is not None:
+            out.append(("infinite", math.atan2(xy[1] - cy, xy[0] - cx)))
         else:
             d = c.direction()
             out.append(("infinite", math.atan2(d[1], d[0])))
@@ -316,6 +325,11 @@ def assess(
         row = np.asarray(jac[q], dtype=float)
         sens = float(np.sqrt(np.sum(row**2))) if row.size and np.all(np.isfinite(row)) else math.inf
         flags = []
+        if pos0[q] is not None and pos0[q][0] == "infinite":
+            flags.append(
+                "at or near infinity: only its direction is meaningful; drawing errors can move it anywhere far "
+                "along that direction, on either side"
+            )
         if weak[q]:
             flags.append(
                 f"located by two lines crossing at {math.degrees(math.asin(min(1.0, angles[q]))):.3g} deg: "

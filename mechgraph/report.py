@@ -67,8 +67,10 @@ def _center_dict(c: Center, a: Analysis) -> dict:
     if c.kind_point is not None:
         xy_text = c.exact_text()
         out["text"] = {"x": xy_text[0], "y": xy_text[1]} if xy_text else {"direction": list(c.exact_direction_text())}
-    out["known_lines"] = [list(loc.line) for loc in c.loci]
-    out["ratio_line"] = list(c.ratio_line) if c.ratio_line is not None else None
+    ar = c.arithmetic
+    as_float = (lambda v: float(ar.to_float(v))) if ar is not None else float
+    out["known_lines"] = [[as_float(v) for v in loc.line] for loc in c.loci]
+    out["ratio_line"] = [float(v) for v in c.ratio_line] if c.ratio_line is not None else None
     return out
 
 
@@ -159,7 +161,11 @@ def trust_dict(cond) -> dict:
 def trust_table(cond, unit: str) -> str:
     """The conditioning assessment in words: uncertainty of each center at the drawing tolerance."""
     src = " (default: 0.2 % of the drawing size, common practice)" if cond.input_tol_is_default else ""
-    out = [f"Trust at a drawing tolerance of {_f(cond.input_tol, 4)} {unit}{src}:"]
+    out = [
+        f"Trust at a drawing tolerance of {_f(cond.input_tol, 4)} {unit}{src}: +- is the RMS (one standard deviation) "
+        "of a linear estimate, for independent errors of that size in every drawn coordinate; where a center is "
+        "flagged, the linear estimate understates the spread"
+    ]
     if cond.velocity_condition is not None:
         out.append(f"  velocity system reciprocal condition {_f(cond.velocity_condition, 3)} (1 ideal, 0 singular)")
     for c in cond.centers:
@@ -167,13 +173,13 @@ def trust_table(cond, unit: str) -> str:
             u = f"direction +- {math.degrees(c.uncertainty):.3g} deg"
         else:
             u = f"+- {_f(c.uncertainty, 3)} {unit}"
-        dig = f", {c.digits:.0f} digits sound" if c.digits is not None else ""
+        dig = f", {math.floor(c.digits)} digits sound" if c.digits is not None else ""
         flags = "; " + "; ".join(c.flags) if c.flags else ""
         out.append(f"  {c.pair:<24} {u:<28} (x{_f(c.sensitivity, 3)}{dig}){flags}")
     if cond.velocity_digits:
         worst = min(cond.velocity_digits.items(), key=lambda kv: kv[1])
         out.append(
-            f"  angular velocities rechecked in high precision: the least sound is '{worst[0]}' with {worst[1]:.0f} digits"
+            f"  angular velocities rechecked in high precision: the least sound is '{worst[0]}' with {math.floor(worst[1])} digits"
         )
     return "\n".join(out) + "\n"
 
@@ -199,9 +205,9 @@ def recheck_table(r) -> str:
         f"so the results were recomputed with {r.digits} digits:"
     ]
     if cmin:
-        out.append(f"  centers keep at least {cmin[1]:.0f} sound digits (least: {cmin[0]})")
+        out.append(f"  centers keep at least {math.floor(cmin[1])} sound digits (least: {cmin[0]})")
     if vmin:
-        out.append(f"  angular velocities keep at least {vmin[1]:.0f} sound digits (least: '{vmin[0]}')")
+        out.append(f"  angular velocities keep at least {math.floor(vmin[1])} sound digits (least: '{vmin[0]}')")
     return "\n".join(out) + "\n"
 
 
