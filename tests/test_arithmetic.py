@@ -186,3 +186,31 @@ def test_every_case_in_every_arithmetic():
             a = analyse(m, arithmetic=kind)
             assert a.passed, (path.stem, kind, a.crosscheck)
             assert all(c.point is not None for c in a.centers), (path.stem, kind)
+
+
+def test_exact_refuses_fields_of_high_degree_promptly():
+    # cos 37.2 deg generates a number field of degree 40: refused, pointing to vectors or precision.
+    m = Mechanism(
+        name="inclined slider",
+        links=(Link("frame", ground=True), Link("crank"), Link("rod"), Link("block")),
+        joints=(
+            Revolute("O", ("frame", "crank"), at=(0.0, 0.0)),
+            Revolute("A", ("crank", "rod"), at=(10.0, 30.0)),
+            Revolute("B", ("rod", "block"), at=(140.0, 40.0)),
+            Prismatic("S", ("frame", "block"), at=(140.0, 40.0), axis_deg=37.2),
+        ),
+        drivers=(Driver("O", 1.0),),
+    )
+    with pytest.raises(NumberKindError, match=r"degree 80 \(above 16\) for the directions at 37.2 degrees"):
+        analyse(m, arithmetic="exact")
+    assert analyse(m, arithmetic="precision").passed
+
+
+def test_exact_and_precision_json_for_two_inputs(capsys):
+    from pathlib import Path
+
+    case = Path(__file__).resolve().parents[1] / "cases" / "twodof_fivebar_plotter.toml"
+    for kind in ("exact", "precision"):
+        assert main(["centers", str(case), "--arithmetic", kind, "-f", "json"]) == EXIT_OK
+        doc = json.loads(capsys.readouterr().out)
+        assert any(c["ratio_line"] for c in doc["centers"]) and any(c["known_lines"] for c in doc["centers"])

@@ -132,3 +132,29 @@ def test_cli_rechecks_automatically_near_a_dead_point(tmp_path, capsys):
     # away from dead points no recheck is made
     assert main(["demo", "-f", "json"]) == EXIT_OK
     assert json.loads(capsys.readouterr().out)["precision_recheck"] is None
+
+
+def test_center_at_infinity_is_judged_by_direction():
+    # Crank and rocker parallel: the coupler's center lies at infinity along them
+    # (common practice, no source).  Reference: a Monte Carlo of the drawing with
+    # independent 0.5 mm errors, the center as the meeting point of lines O2-A and
+    # O4-B by plain numpy, its direction seen from the drawing centre (up to sign).
+    import numpy as np
+
+    pins = np.array([(0.0, 0.0), (0.0, 40.0), (100.0, 80.0), (100.0, 0.0)])
+    m = four_bar(*map(tuple, pins))
+    t = assess(m, input_tol=0.5).trust("frame-L2")
+    assert t.at_infinity and any("at or near infinity" in f for f in t.flags)
+    rng = np.random.default_rng(7)
+    angles = []
+    for _ in range(4000):
+        o2, a, b, o4 = pins + rng.normal(0.0, 0.5, pins.shape)
+        l1 = np.cross([*o2, 1.0], [*a, 1.0])
+        l2 = np.cross([*o4, 1.0], [*b, 1.0])
+        x, y, w = np.cross(l1, l2)
+        cx, cy = m.centre
+        d = (x - cx * w, y - cy * w)  # direction from the centre, homogeneous
+        angles.append(math.atan2(d[0], d[1]) % math.pi)  # angle from the vertical, unsigned
+    a = (np.array(angles) + math.pi / 2) % math.pi - math.pi / 2
+    rms = float(np.sqrt(np.mean(a**2)))
+    assert t.uncertainty == pytest.approx(rms, rel=0.25)

@@ -39,7 +39,9 @@ def test_table_has_columns_summary_and_caution(rows):
     text = render_table(rows)
     assert "case" in text and "source" in text and "expected" in text and "computed" in text
     assert CAUTION in text
-    assert text.rstrip().endswith(f"{len(rows)} passed, 0 failed")
+    skipped = sum(r.skipped for r in rows)
+    assert text.rstrip().endswith(f"{len(rows) - skipped} passed, 0 failed" + (f", {skipped} skipped" if skipped else ""))
+    assert "from memory" in text  # the source column keeps the provenance
 
 
 def test_a_failing_check_fails_the_command(monkeypatch, capsys):
@@ -69,3 +71,13 @@ def test_python_dash_m_validation():
     r = subprocess.run([sys.executable, "-m", "validation"], capture_output=True, text=True)
     assert r.returncode == 0, r.stdout[-2000:] + r.stderr
     assert " passed, 0 failed" in r.stdout
+
+
+def test_a_bad_case_file_fails_only_its_own_rows(tmp_path):
+    from mechgraph.casefile import demo_case_path
+
+    (tmp_path / "good.toml").write_text(demo_case_path().read_text())
+    (tmp_path / "broken.toml").write_text("[[link]\n")
+    rows = [r for r in run_suite(tmp_path) if r.case in ("good", "broken")]
+    assert [r.passed for r in rows if r.case == "broken"] == [False]
+    assert all(r.passed for r in rows if r.case == "good") and len([r for r in rows if r.case == "good"]) > 3

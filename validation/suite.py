@@ -56,6 +56,7 @@ class CheckResult:
     tol: float
     passed: bool
     seconds: float = 0.0
+    skipped: bool = False
 
 
 @dataclass(frozen=True)
@@ -204,43 +205,73 @@ def _cases(cases_dir: Path):
             yield p.stem, load_case(p)
 
 
+def _cases_isolated(cases_dir: Path):
+    """Each case as (name, mechanism or the error reading it): one bad file does not hide the others."""
+    from mechgraph.casefile import demo_mechanism, load_case
+
+    yield "demo (label applicator)", demo_mechanism()
+    if cases_dir.is_dir():
+        for p in sorted(cases_dir.glob("*.toml")):
+            try:
+                yield p.stem, load_case(p)
+            except Exception as e:  # reported as that case's failed row
+                yield p.stem, e
+
+
 def _cross_method(cases_dir: Path) -> Iterator[CheckResult]:
+    for name, m in _cases_isolated(cases_dir):
+        if isinstance(m, Exception):
+            yield _flag(name, "case file", "reads", "a valid case", f"{type(m).__name__}: {m}", False, math.inf)
+            continue
+        try:
+            rows = list(_cross_method_one(name, m))
+        except Exception as e:
+            rows = [_flag(name, "cross-method checks", "runs", "no error", f"{type(e).__name__}: {e}", False, math.inf)]
+        yield from rows
+
+
+def _cross_method_one(name, m) -> Iterator[CheckResult]:
     from mechgraph.analysis import analyse
-    from mechgraph.errors import ModelError
+    from mechgraph.errors import ModelError, NumberKindError
     from mechgraph.position import assemble
 
-    for name, m in _cases(cases_dir):
-        fl = analyse(m)
-        cc = fl.crosscheck
-        n = m.n_links
-        yield _flag(name, TRADE, "centers defined", str(n * (n - 1) // 2), str(sum(c.point is not None for c in fl.centers)),
-                    all(c.point is not None for c in fl.centers))
-        yield _flag(name, "three-centers vs velocity analysis", "largest separation", "0", f"{cc.max_separation:.2e}",
-                    cc.max_separation <= cc.tol, cc.max_separation, cc.tol)
-        yield _flag(name, "Aronhold-Kennedy theorem, " + TRADE, "largest triple residual", "0", f"{cc.max_collinearity:.2e}",
-                    cc.max_collinearity <= cc.tol, cc.max_collinearity, cc.tol)
-        for kind in ("exact", "precision"):
-            other = analyse(m, arithmetic=kind)
-            worst = max(
-                (_sep(m, c1.point, c2.point) for c1, c2 in zip(fl.centers, other.centers) if c1.point is not None),
-                default=0.0,
-            )
-            yield _flag(name, f"floating point vs {kind} arithmetic", "largest center difference", "0", f"{worst:.2e}",
-                        worst <= 1e-9 and other.passed, worst, 1e-9)
-        # velocity analysis vs central differences of assembled positions
+    fl = analyse(m)
+    cc = fl.crosscheck
+    n = m.n_links
+    yield _flag(name, TRADE, "centers defined", str(n * (n - 1) // 2), str(sum(c.point is not None for c in fl.centers)),
+                all(c.point is not None for c in fl.centers))
+    yield _flag(name, "three-centers vs velocity analysis", "largest separation", "0", f"{cc.max_separation:.2e}",
+                cc.max_separation <= cc.tol, cc.max_separation, cc.tol)
+    yield _flag(name, "Aronhold-Kennedy theorem, " + TRADE, "largest triple residual", "0", f"{cc.max_collinearity:.2e}",
+                cc.max_collinearity <= cc.tol, cc.max_collinearity, cc.tol)
+    for kind in ("exact", "precision"):
         try:
-            h = 1e-6
-            for k, d in enumerate(m.drivers):
-                e = np.zeros(len(m.drivers))
-                e[k] = h * (m.scale if m.joint_by_name[d.joint].drive == "sliding" else 1.0)
-                fd = (assemble(m, e) - assemble(m, -e)) / (2 * e[k])
-                b = fl.velocity.basis[k]
-                err = float(np.max(np.abs(fd[:, 2] - b[:, 0])) / max(1.0, np.abs(b[:, 0]).max()))
-                yield _flag(name, "central differences of assembled positions", f"angular velocities per unit '{d.joint}'",
-                            "0", f"{err:.2e}", err <= 1e-6, err, 1e-6)
-        except ModelError:
-            yield _flag(name, "central differences of assembled positions", "angular velocities",
-                        "-", "skipped: a joint kind without a position model", True)
+            other = analyse(m, arithmetic=kind)
+        except NumberKindError as e:
+            yield CheckResult(name, f"floating point vs {kind} arithmetic", "largest center difference", "0",
+                              f"not run: {e}", 0.0, 0.0, True, skipped=True)
+            continue
+        worst = max(
+            (_sep(m, c1.point, c2.point) for c1, c2 in zip(fl.centers, other.centers) if c1.point is not None),
+            default=0.0,
+        )
+        yield _flag(name, f"floating point vs {kind} arithmetic", "largest center difference", "0", f"{worst:.2e}",
+                    worst <= 1e-9 and other.passed, worst, 1e-9)
+    # velocity analysis vs central differences of assembled positions
+    try:
+        h = 1e-6
+        for k, d in enumerate(m.drivers):
+            e = np.zeros(len(m.drivers))
+            e[k] = h * (m.scale if m.joint_by_name[d.joint].drive == "sliding" else 1.0)
+            fd = (assemble(m, e) - assemble(m, -e)) / (2 * e[k])
+            b = fl.velocity.basis[k]
+            err = float(np.max(np.abs(fd[:, 2] - b[:, 0])) / max(1.0, np.abs(b[:, 0]).max()))
+            yield _flag(name, "central differences of assembled positions", f"angular velocities per unit '{d.joint}'",
+                        "0", f"{err:.2e}", err <= 1e-6, err, 1e-6)
+    except ModelError:
+        yield CheckResult(name, "central differences of assembled positions", "angular velocities", "-",
+                          "not run: a joint kind without a position model (cam, rolling, gear)",
+                          0.0, 0.0, True, skipped=True)
 
 
 def _sep(m, p, q) -> float:
@@ -256,8 +287,8 @@ def _indeterminate(cases_dir: Path) -> Iterator[CheckResult]:
         return
     from mechgraph.analysis import analyse, locate_centers
 
-    for name, m in _cases(cases_dir):
-        if not locate_centers(m).unresolved or len(m.drivers) != 1:
+    for name, m in _cases_isolated(cases_dir):
+        if isinstance(m, Exception) or not locate_centers(m).unresolved or len(m.drivers) != 1:
             continue  # determinate (or several freedoms): nothing for the relaxation method
         fl = analyse(m, geometric=False)
         res = locate_by_relaxation(m)
@@ -318,8 +349,13 @@ def render_table(rows: list[CheckResult]) -> str:
     from mechgraph.report import CAUTION
 
     heads = ("case", "source", "quantity", "expected", "computed", "error", "pass")
-    body = [(r.case, r.source, r.quantity, r.expected, r.computed, f"{r.error:.2e}", "pass" if r.passed else "FAIL") for r in rows]
-    widths = [min(60, max(len(h), *(len(b[k]) for b in body))) if body else len(h) for k, h in enumerate(heads)]
+    body = [
+        (r.case, r.source, r.quantity, r.expected, r.computed, f"{r.error:.2e}",
+         "skip" if r.skipped else ("pass" if r.passed else "FAIL"))
+        for r in rows
+    ]
+    limits = (48, 110, 44, 24, 60, 9, 4)  # the source column is kept whole enough to show "from memory"
+    widths = [min(lim, max(len(h), *(len(b[k]) for b in body))) if body else len(h) for k, (h, lim) in enumerate(zip(heads, limits))]
 
     def cut(s, w):
         return s if len(s) <= w else s[: w - 3] + "..."
@@ -330,6 +366,8 @@ def render_table(rows: list[CheckResult]) -> str:
     for b in body:
         lines.append("  ".join(cut(x, w).ljust(w) for x, w in zip(b, widths)))
     failed = [r for r in rows if not r.passed]
+    skipped = [r for r in rows if r.skipped]
     lines.append("")
-    lines.append(f"{len(rows) - len(failed)} passed, {len(failed)} failed")
+    tail = f", {len(skipped)} skipped" if skipped else ""
+    lines.append(f"{len(rows) - len(failed) - len(skipped)} passed, {len(failed)} failed{tail}")
     return "\n".join(lines) + "\n"
