@@ -396,11 +396,13 @@ def analyse(
                 vp = kind.normalize_point(pole, scale=L, origin=O)
         geo = tc.points[q]
         d = tc.derivations[q]
-        relaxed_text = None
+        relaxed_text, crossing = None, (d.crossing if d is not None else 1.0)
         if geo is None and relax is not None and relax.points[q] is not None and not rest:
             # not reached by the theorem from the joints: found by the relaxation method
             geo, d = relax.points[q], relax.three_centers.derivations[q]
             relaxed_text = relax.derivations[q]
+            found = relax.found.get((i, j))
+            crossing = found.crossing if found is not None else (d.crossing if d is not None else 1.0)
         check = None
         if geo is not None:
             if relaxed_text is not None:
@@ -457,7 +459,7 @@ def analyse(
                 relative_rest=rest,
                 check=check,
                 loci=tc.loci[q] if geo is None else (),
-                crossing=d.crossing if (d is not None and relaxed_text is None) else 1.0,
+                crossing=crossing,
                 ratio_line=ratio_lines.get(q),
                 kind_point=None if is_float else point,
                 arithmetic=None if is_float else kind,

@@ -212,8 +212,14 @@ def _positions(a: Analysis, L: float):
 
 def _crossing_sine(a: Analysis, c) -> float | None:
     """Sine of the angle between the two lines that located a finite center (None otherwise)."""
+    if c.point is None or c.cartesian(a.mechanism.scale) is None:
+        return None
+    if c.method == "relaxation" and a.relaxation is not None:
+        found = a.relaxation.found.get((c.i, c.j))
+        lines = [x.line for x in found.lines if getattr(x, "line", None) is not None] if found is not None else []
+        return pg.line_angle_sine(lines[0], lines[1]) if len(lines) == 2 else None
     d = a.three_centers.derivation(c.i, c.j)
-    if d is None or len(d.loci) != 2 or c.point is None or c.cartesian(a.mechanism.scale) is None:
+    if d is None or len(d.loci) != 2:
         return None
     return pg.line_angle_sine(d.loci[0].line, d.loci[1].line)
 

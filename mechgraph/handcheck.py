@@ -16,7 +16,11 @@ whether it passes through their reported point; it then walks the derivation
 graph back (through the centers that are off, and through those within
 tolerance that carry an error on) to the earliest wrong step the others
 depend on (the *first faulty step*), and lists the later items that only
-inherit that error.
+inherit that error.  The person need not have built the centers in
+mechgraph's order: a center whose point lies on two (distinct) three-centers
+lines I_ik-I_jk drawn through their own values of other centers is
+consistent with their own construction, and inherits from those of the
+centers it was drawn through that are off.
 
 The TOML hand file
 ------------------
@@ -1134,7 +1138,8 @@ class CenterCheck:
         the error came in with its inputs); None when nothing could be redrawn.
     faulty_step : bool
         Off, and the error is made here: the person's own lines miss their
-        point, or nothing wrong lies behind it (see :func:`check_hand`).
+        point (and no two other three-centers lines through their own values
+        pass through it), or nothing wrong lies behind it (see :func:`check_hand`).
     inherits_from : tuple of str
         Labels of the earlier faulty steps whose error reaches it.
     inherited_by : tuple of str
@@ -1341,6 +1346,16 @@ def check_hand(analysis: Analysis, hand: HandCalculation) -> HandReport:
     the person's own lines miss their own point, or when there is nothing
     wrong behind it to inherit from (a misread pin; or, with lines that do
     pass, small errors grown at a sensitive crossing, which the note says).
+    The person may have built a center otherwise than mechgraph did: for a
+    center that is not a pin, every three-centers line I_ik-I_jk (k any
+    third link) through the person's own values of I_ik and I_jk is also
+    redrawn, and when their point lies on two such lines that do not
+    coincide, the step is consistent with their own construction: it is not a
+    faulty step, and it inherits from the off centers those lines pass
+    through (the walk back continues from them; such lines are added to
+    ``lines``).  When centers consistent only with one another leave no
+    faulty step behind them, the earliest of them that mechgraph's own
+    derivation finds faulty is the faulty step.
     The first faulty step is the earliest faulty step in the order in which
     the construction locates the centers; the later items that inherit from
     it are listed with it.  Rates are traced the same way: an
@@ -1452,10 +1467,50 @@ def check_hand(analysis: Analysis, hand: HandCalculation) -> HandReport:
                 stack.extend(deps[x])
         return found
 
-    # classify in construction order, so that every input is classified before the centers built on it
+    def own_construction(p) -> list:
+        """Three-centers lines I_ik-I_jk through the person's own values that pass through their point of p."""
+        mine, e = user_place(p), base[p]
+        tol, atol = e["tol"], e["atol"]
+        found = []
+        for k in range(n):
+            if k in p:
+                continue
+            a, b = tuple(sorted((p[0], k))), tuple(sorted((p[1], k)))
+            ua, ub = user_place(a), user_place(b)
+            if ua is None or ub is None:
+                continue
+            # two coinciding centers give no line; a center at the point itself gives no information
+            if any(geo.compare(x, y, tol, atol)[0] for x, y in ((ua, ub), (ua, mine), (ub, mine))):
+                continue
+            user_line = tuple(pg.join(_homogeneous(ua), _homogeneous(ub)))
+            off_user, measure, passes = geo.incidence(mine, user_line, tol, atol)
+            if not passes:
+                continue
+            ta, tb = base[a]["expected"], base[b]["expected"]
+            true_line, off_true = (), None
+            if ta is not None and tb is not None and not (ta.xy is None and tb.xy is None):
+                true_line = tuple(pg.join(_homogeneous(ta), _homogeneous(tb)))
+                off_true, _, _ = geo.incidence(mine, true_line, tol, atol)
+            found.append((a, b, ua, ub, LineCheck(
+                label=f"line {mech.pair_names(*a)}/{mech.pair_names(*b)}",
+                through=(_pair_names(mech, a), _pair_names(mech, b)), through_status=(status[a], status[b]),
+                line=true_line, off_true=off_true, user_line=user_line, off_user=off_user, measure=measure,
+                passes=True, note="a three-centers line through your own values of two other centers",
+            )))
+        # at least two of them that are not one and the same line
+        for x in found:
+            others = [y for y in found if y is not x and not (
+                geo.incidence(y[2], x[4].user_line, tol, atol)[2] and geo.incidence(y[3], x[4].user_line, tol, atol)[2])]
+            if others:
+                return found
+        return []
+
+    # classify each center that is off: a faulty step, or inheriting from the centers it is built on
     faulty: set = set()
-    inherits: dict = {}
+    sources_of: dict = {}
     carried: dict = {}  # inherited through inputs that agree: those inputs
+    own_lines: dict = {}  # consistent with the person's own construction (not mechgraph's): its passing lines
+    plain_faulty: dict = {}  # the classification by mechgraph's derivation alone: (faulty, sources)
     for p in sorted((p for p in all_pairs if status[p] == "off"), key=order_key):
         off_inputs = [x for x in deps[p] if status[x] == "off"]
         if off_inputs:
@@ -1466,14 +1521,51 @@ def check_hand(analysis: Analysis, hand: HandCalculation) -> HandReport:
             sources = off_behind_agreeing(p)
             if sources:
                 carried[p] = [x for x in deps[p] if status[x] == "agrees"]
-        if not sources or own_ok[p] is False:
+        is_faulty = not sources or own_ok[p] is False
+        plain_faulty[p] = (is_faulty, sources)
+        if analysis.centers[pair_q[p]].method != "joint":
+            # the person may have built it in another order, through other centers of their own: if their
+            # point lies on two of their own three-centers lines, the step itself is right, and the error
+            # comes from the centers those lines are drawn through (a primary center is read off the case)
+            own = own_construction(p)
+            own_src = list(dict.fromkeys(x for a, b, *_ in own for x in (a, b) if status[x] == "off"))
+            if own_src and is_faulty:
+                is_faulty, sources = False, own_src
+                own_lines[p] = [x[4] for x in own]
+                carried.pop(p, None)
+            elif own_src:
+                sources = list(dict.fromkeys([*sources, *own_src]))
+        if is_faulty:
             faulty.add(p)
-        found: set = set()
-        for x in sources:
+        sources_of[p] = sources
+
+    def trace(p) -> list:
+        """The faulty steps reached from p's sources, walking back through the centers they come from."""
+        seen, stack, found = {p}, list(sources_of.get(p, ())), set()
+        while stack:
+            x = stack.pop()
+            if x in seen:
+                continue
+            seen.add(x)
             if x in faulty:
                 found.add(x)
-            found.update(inherits[x])
-        inherits[p] = sorted(found, key=order_key)
+            stack.extend(sources_of.get(x, ()))
+        return sorted(found, key=order_key)
+
+    # centers consistent only with one another (each on lines through the others) leave no faulty step behind
+    # them: the earliest of them that mechgraph's own derivation finds faulty (else the earliest) is the step
+    while True:
+        stranded = [p for p in sorted(sources_of, key=order_key) if p not in faulty and not trace(p)]
+        if not stranded:
+            break
+        p = next((x for x in stranded if plain_faulty[x][0]), stranded[0])
+        faulty.add(p)
+        sources_of[p] = plain_faulty[p][1]
+        own_lines.pop(p, None)
+    inherits: dict = {p: trace(p) for p in sources_of}
+    for p, extra in own_lines.items():
+        have = {ln.through for ln in lines[p]}
+        lines[p] = lines[p] + tuple(ln for ln in extra if ln.through not in have and ln.through[::-1] not in have)
 
     # rates, traced back to the centers and rates they come from
     rates = _rate_checks(analysis, hand, status, inherits, faulty)
@@ -1491,7 +1583,7 @@ def check_hand(analysis: Analysis, hand: HandCalculation) -> HandReport:
         note = e["note"]
         if status[p] == "off":
             note = _center_note(mech, lines.get(p, ()), own_ok.get(p), p in faulty, inherits[p], deps[p], status,
-                                tc.derivations[q], note, carried.get(p, ()))
+                                tc.derivations[q], note, carried.get(p, ()), c.method, own_lines.get(p, ()))
         centers.append(
             CenterCheck(
                 pair=_pair_names(mech, p), i=p[0], j=p[1], label=lab, status=status[p],
@@ -1572,10 +1664,13 @@ def _coincidence_check(mech, geo: _Geometry, other, mine: Place, tol, atol, stat
                      off_true=None, user_line=None, off_user=off, measure=measure, passes=ok, note=note)
 
 
-def _center_note(mech, checks, own, is_faulty, inh, dp, status, d, note, carried=()) -> str:
+def _center_note(mech, checks, own, is_faulty, inh, dp, status, d, note, carried=(), method="", own_lines=()) -> str:
     parts = [note] if note else []
     if d is not None and d.method == "joint":
         parts.append("a primary center, given directly by a joint of the case: read it off the case")
+    elif d is None and method == "relaxation":
+        parts.append("not reached by the three-centers theorem alone: mechgraph locates it geometrically by the "
+                     "relaxation method (see analysis.center(...).derivation)")
     elif d is None:
         parts.append("not reached by the three-centers theorem (mechgraph takes it from the velocity analysis)")
     case_missed = [x.label for x in checks if x.passes is False and x.through is None]
@@ -1587,6 +1682,11 @@ def _center_note(mech, checks, own, is_faulty, inh, dp, status, d, note, carried
         parts.append(f"your own {_lines_phrase(missed)} {'misses' if len(missed) == 1 else 'miss'} your point")
     if passed:
         parts.append(f"your own {_lines_phrase(passed)} {'passes' if len(passed) == 1 else 'pass'} through it")
+    if own_lines:
+        parts.append(
+            f"your point lies on your own {_lines_phrase([x.label for x in own_lines])}, three-centers lines through "
+            "your own values of other centers: it is consistent with your own construction"
+        )
     off_deps = [mech.pair_names(*x) for x in dp if status[x] == "off"]
     miss_deps = [mech.pair_names(*x) for x in dp if status[x] in ("missing", "unchecked")]
     if off_deps:

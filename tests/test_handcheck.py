@@ -418,7 +418,94 @@ def test_velocity_method_center_of_an_indeterminate_linkage():
     r = check(case, vals)
     c = r.item(label(m, p))
     assert c.status == "off" and c.faulty_step and "not reached by the three-centers theorem" in c.note
+    if c.method == "relaxation":
+        assert "relaxation method" in c.note and "velocity analysis" not in c.note
     assert r.first_faulty == label(m, p)
+
+
+def own_order(a, recipe, perturb):
+    """Hand values of a person who builds the centers in their own order, through their own values.
+
+    The pins are mechgraph's; ``recipe`` is a list of (target, (A, B), (C, D)) of
+    link-name pairs: the target is where line A-B meets line C-D (each through
+    the person's values).  ``perturb`` {pair: (dx, dy)} moves a center right
+    after it is constructed, so that later steps carry the error on.
+    """
+    m, tc = a.mechanism, a.three_centers
+    all_pairs = pairs(m.n_links)
+    vals = {all_pairs[q]: a.centers[q].point for q in tc.order if tc.derivations[q].method == "joint"}
+    for tgt, (p1, p2), (q1, q2) in recipe:
+        h = pg.meet(pg.join(vals[idx(m, *p1)], vals[idx(m, *p2)]), pg.join(vals[idx(m, *q1)], vals[idx(m, *q2)]))
+        p = idx(m, *tgt)
+        vals[p] = moved(h, perturb[p]) if p in perturb else h
+    return vals
+
+
+def test_centers_built_in_the_persons_own_order_inherit():
+    a = analysis_of("demo")
+    m = a.mechanism
+    F, C, R, P, D, K = "frame", "crank", "rocker", "pusher", "pad arm", "coupler"
+    recipe = [
+        ((F, K), ((F, C), (C, K)), ((K, R), (F, R))),
+        ((C, R), ((F, C), (F, R)), ((C, K), (K, R))),
+        ((K, D), ((K, P), (P, D)), ((F, D), (F, K))),
+        ((C, D), ((F, C), (F, D)), ((K, D), (C, K))),  # the error is made here
+        ((C, P), ((C, K), (K, P)), ((C, D), (P, D))),  # not mechgraph's lines for these three
+        ((F, P), ((F, C), (C, P)), ((F, D), (P, D))),
+        ((R, P), ((K, R), (K, P)), ((C, R), (C, P))),
+        ((R, D), ((F, R), (F, D)), ((K, D), (K, R))),
+    ]
+    root = idx(m, C, D)
+    later = {idx(m, C, P), idx(m, F, P), idx(m, R, P)}
+    tc = a.three_centers
+    q_of = {p: q for q, p in enumerate(pairs(m.n_links))}
+    # the setup: for these, mechgraph's own derivation is not the person's
+    for p in later:
+        assert {frozenset(tuple(sorted(x)) for x in loc.through) for loc in tc.derivations[q_of[p]].loci} != {
+            frozenset(idx(m, *x) for x in step[1:][k]) for step in recipe if idx(m, *step[0]) == p for k in (0, 1)}
+    vals = own_order(a, recipe, {root: (3.0, 2.0)})
+    off = off_pairs(a, vals)
+    assert off == {root} | later
+    r = check("demo", vals)
+    assert r.first_faulty == label(m, root) and r.faulty_steps == (label(m, root),), r.faulty_steps
+    assert set(r.item(label(m, root)).inherited_by) == {label(m, p) for p in later}
+    for p in later:
+        c = r.item(label(m, p))
+        assert c.status == "off" and not c.faulty_step and c.inherits_from == (label(m, root),)
+        assert "inherited" in c.note
+    # rocker-pusher misses one of mechgraph's lines (through frame-pusher): it is judged by the person's own ones
+    c = r.item(label(m, idx(m, R, P)))
+    assert c.own_step_ok is False and "consistent with your own construction" in c.note
+    assert "line crank-rocker/crank-pusher" in {ln.label for ln in c.lines}
+    # a slip after the construction, on no line of the person's, is still a faulty step of its own
+    vals[idx(m, R, D)] = moved(vals[idx(m, R, D)], (0.0, 4.0))
+    r = check("demo", vals)
+    assert r.faulty_steps == (label(m, root), label(m, idx(m, R, D)))
+
+
+def test_relaxation_center_carried_on_by_the_person_is_inherited():
+    case = "eightbar_double_butterfly_stage_lift.toml"
+    a = analysis_of(case)
+    m = a.mechanism
+    q_of = {p: q for q, p in enumerate(pairs(m.n_links))}
+    root, later = idx(m, "frame", "upper plate"), idx(m, "frame", "front tie")
+    assert a.centers[q_of[root]].method == a.centers[q_of[later]].method == "relaxation"
+    vals = {p: a.centers[q].point for q, p in enumerate(pairs(m.n_links)) if a.centers[q].method == "joint"}
+    vals[root] = moved(a.centers[q_of[root]].point, (4.0, -3.0))  # off by 5 mm
+    # the person then crosses two three-centers lines, one through their own (off) frame-upper plate
+    vals[later] = pg.meet(
+        pg.join(vals[idx(m, "frame", "rocking beam")], vals[idx(m, "rocking beam", "front tie")]),
+        pg.join(vals[idx(m, "upper plate", "front tie")], vals[root]),
+    )
+    assert off_pairs(a, vals) == {root, later}
+    r = check(case, vals)
+    assert r.first_faulty == label(m, root) and r.faulty_steps == (label(m, root),)
+    first, c = r.item(label(m, root)), r.item(label(m, later))
+    assert first.inherited_by == (label(m, later),)
+    assert not c.faulty_step and c.inherits_from == (label(m, root),)
+    for x in (first, c):
+        assert "relaxation method" in x.note and "analysis.center(...).derivation" in x.note
+        assert "velocity analysis" not in x.note
 
 
 def r_holds(case, vals) -> bool:
