@@ -164,10 +164,21 @@ def test_cli_exact_json_carries_text_values(capsys):
     doc = json.loads(capsys.readouterr().out)
     assert doc["arithmetic"] == "exact"
     c = next(c for c in doc["centers"] if c["pair"] == ["frame", "coupler"])
-    assert c["text"] == {"x": "5600/33", "y": "7840/33"}
+    # Source: sympy.geometry (a general-purpose library): lines O2-A and O4-B of the demo's
+    # four-bar loop meet at the coupler's center (the three-centers theorem).
+    from sympy.geometry import Line, Point
+
+    p = Line(Point(0, 0), Point(25, 35)).intersection(Line(Point(140, 0), Point(150, 80)))[0]
+    assert c["text"] == {"x": str(p.x), "y": str(p.y)} == {"x": "5600/33", "y": "7840/33"}
     assert c["x"] == pytest.approx(5600 / 33, rel=1e-15)
     w = next(l for l in doc["velocity"]["links"] if l["name"] == "coupler")
-    assert w["angular_velocity_text"] == "-132*pi/191"
+    # Source: angular-velocity-ratio theorem (common practice, no source): w3/w2 = -|I12 I23| / |I13 I23|
+    # measured from the exact centers, with w2 = 120 rpm = 4*pi rad/s.
+    from sympy import Rational, pi, sqrt
+
+    i12, i23 = (Rational(0), Rational(0)), (Rational(25), Rational(35))
+    ratio = -sqrt((i23[0] - i12[0]) ** 2 + (i23[1] - i12[1]) ** 2) / sqrt((i23[0] - p.x) ** 2 + (i23[1] - p.y) ** 2)
+    assert w["angular_velocity_text"] == str(ratio * 4 * pi) == "-132*pi/191"
 
 
 def test_cli_digits_too_few(capsys):
