@@ -461,7 +461,7 @@ class _Builder:
                     f"write the hand values in {self.mech.unit}, the unit of the case",
                     line,
                 )
-            self.unit, self.unit_where = base, where
+            self.unit, self.unit_where = base, (where or (f"line {line}" if line is not None else "its first unit"))
         elif base != self.unit:
             self.fail(
                 where,
