@@ -268,7 +268,8 @@ def resolve_arithmetic(arithmetic, mech: Mechanism, *, tol: float = 1e-9, digits
     if arithmetic is None:
         return None
     if isinstance(arithmetic, str):
-        return None if arithmetic == "float" and tol == 1e-9 else make_arithmetic(arithmetic, mech, tol=tol, digits=digits)
+        # floating point: the solver takes ``tol`` itself, so no arithmetic object is needed
+        return None if arithmetic == "float" else make_arithmetic(arithmetic, mech, tol=tol, digits=digits)
     return arithmetic
 
 

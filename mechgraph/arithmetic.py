@@ -35,7 +35,6 @@ most 15 significant digits.
 from __future__ import annotations
 
 import math
-from typing import Sequence
 
 import numpy as np
 

@@ -620,10 +620,7 @@ class Mechanism:
         >>> round(demo_mechanism().scale, 6)
         254.950976
         """
-        pts = np.asarray([p for j in self.joints for p in j.reference_points()], dtype=float).reshape(-1, 2)
-        if len(pts) == 0:
-            return 1.0
-        d = float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0))))
+        d = self._raw_size()
         return d if d > 0.0 else 1.0
 
     def _raw_size(self) -> float:

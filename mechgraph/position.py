@@ -244,7 +244,6 @@ def assemble(
     targets = np.asarray(inputs, dtype=float).reshape(-1)
     if len(targets) != len(mech.drivers):
         raise ModelError(f"assemble needs one input value per driver ({len(mech.drivers)}), got {len(targets)}")
-    L = mech.scale
     norm = np.inf
     for it in range(1, max_iterations + 1):
         r, J, keep, sizes = _system(mech, poses, targets)

@@ -25,7 +25,7 @@ each through which two centers, via which third link.
 from __future__ import annotations
 
 from collections import deque
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from functools import cached_property
 from typing import Iterable, Sequence
 

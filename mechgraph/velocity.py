@@ -677,7 +677,7 @@ def analyse_velocities(
     source.
     """
     ar = arithmetic
-    n, g, Lf = mech.n_links, mech.ground_index, mech.scale
+    n, Lf = mech.n_links, mech.scale
     frame = _frame(mech, poses, ar)
     rowsA, _, col, ncols, L = _rows(mech, frame, ar)
     A = ar.matrix(rowsA, ncols)

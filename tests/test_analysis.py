@@ -2,9 +2,7 @@
 
 from __future__ import annotations
 
-import math
 
-import numpy as np
 import pytest
 
 from mechgraph import projective as pg

@@ -12,7 +12,7 @@ from mechgraph.analysis import analyse
 from mechgraph.arithmetic import NumberKindError, ExactArithmetic, PrecisionArithmetic, TypedFloat, decimal_text
 from mechgraph.casefile import demo_mechanism, parse_case
 from mechgraph.cli import EXIT_INPUT, EXIT_OK, main
-from mechgraph.generate import four_bar, slider_crank
+from mechgraph.generate import four_bar
 from mechgraph.joints import Prismatic, Revolute
 from mechgraph.model import Driver, Link, Mechanism
 

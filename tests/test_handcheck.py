@@ -218,7 +218,6 @@ def test_mechgraphs_own_values_agree(case, fmt):
 
 def test_values_within_tolerance_agree():
     a = analysis_of("demo")
-    m = a.mechanism
     # every center moved by 0.4 of the tolerance (mechgraph's values, deliberately moved a little)
     step = 0.4 * TOL / math.sqrt(2.0)
     vals = {p: moved(h, (step, -step)) for p, h in replay(a).items()}

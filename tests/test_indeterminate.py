@@ -36,7 +36,7 @@ import pytest
 from mechgraph import projective as pg
 from mechgraph.analysis import analyse, locate_centers
 from mechgraph.casefile import demo_mechanism, load_case
-from mechgraph.errors import MechgraphError, SingularPositionError
+from mechgraph.errors import MechgraphError
 from mechgraph.generate import DOUBLE_BUTTERFLY, SINGLE_FLIER, random_pin_chain as random_chain
 from mechgraph.indeterminate import (
     IncompleteRelaxationError,

@@ -166,7 +166,7 @@ def _assert_eight_bar_complete(a):
 
 def _assert_two_freedom(a):
     """Two inputs: primary centers agree; the others come from the velocity analysis, on their ratio lines."""
-    m, L, O = a.mechanism, a.mechanism.scale, a.mechanism.centre
+    L, O = a.mechanism.scale, a.mechanism.centre
     assert a.passed
     assert a.velocity.mobility == a.velocity.gruebler == 2 and len(a.velocity.driver_joints) == 2
     for c in a.centers:

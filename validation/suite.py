@@ -196,15 +196,6 @@ def _slider_cranks() -> Iterator[CheckResult]:
 
 
 # --------------------------------------------------------------- cross-method
-def _cases(cases_dir: Path):
-    from mechgraph.casefile import demo_mechanism, load_case
-
-    yield "demo (label applicator)", demo_mechanism()
-    if cases_dir.is_dir():
-        for p in sorted(cases_dir.glob("*.toml")):
-            yield p.stem, load_case(p)
-
-
 def _cases_isolated(cases_dir: Path):
     """Each case as (name, mechanism or the error reading it): one bad file does not hide the others."""
     from mechgraph.casefile import demo_mechanism, load_case
